@@ -47,6 +47,7 @@ func BenchmarkAssessFit(b *testing.B) {
 		if err != nil {
 			b.Fatal(err)
 		}
-		b.ReportMetric(float64(res.Fit.Trials), "solves/op")
+		b.ReportMetric(float64(res.Fit.Trials), "member-solves/op")
+		b.ReportMetric(float64(res.Fit.StripSolutions), "strip-solves/op")
 	}
 }

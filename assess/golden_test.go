@@ -11,6 +11,7 @@ import (
 	"path/filepath"
 	"sort"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -28,6 +29,25 @@ func exampleInputs(t testing.TB) []string {
 	}
 	sort.Strings(files)
 	return files
+}
+
+var (
+	exampleMu    sync.Mutex
+	exampleCache = map[string]*Result{}
+)
+
+// exampleResult runs an example input once per test binary (TestGolden,
+// TestResultInvariants and others share the results).
+func exampleResult(t testing.TB, path string) *Result {
+	t.Helper()
+	exampleMu.Lock()
+	defer exampleMu.Unlock()
+	if r, ok := exampleCache[path]; ok {
+		return r
+	}
+	r := runFile(t, path)
+	exampleCache[path] = r
+	return r
 }
 
 func runFile(t testing.TB, path string) *Result {
@@ -57,7 +77,7 @@ func TestGolden(t *testing.T) {
 	for _, path := range exampleInputs(t) {
 		name := strings.TrimSuffix(filepath.Base(path), ".json")
 		t.Run(name, func(t *testing.T) {
-			res := runFile(t, path)
+			res := exampleResult(t, path)
 			got, err := MarshalJSON(res)
 			if err != nil {
 				t.Fatal(err)

@@ -243,6 +243,7 @@ func TestValidateTabulated(t *testing.T) {
 		{[]any{[]any{5, 20}, []any{10, 500}}, "fire.points[0][0]"},
 		{[]any{[]any{0, 20}, []any{10, 500}, []any{10, 600}}, "fire.points[2][0]"},
 		{[]any{[]any{0, 20, 5}}, "fire.points[0]"},
+		{[]any{[]any{0, 20}, []any{60, 900}}, "fire.points[1][1]"}, // never back to ambient
 	}
 	for _, c := range cases {
 		probs := problemsOf(t, fire(c.points))
