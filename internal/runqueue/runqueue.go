@@ -66,7 +66,8 @@ type Queue struct {
 
 	mu     sync.RWMutex // guards closed and the send/close of jobs
 	closed bool
-	jobs   chan *job
+	jobs   chan *job     // capacity workers+depth: a send never blocks once a slot is held
+	slots  chan struct{} // one token per accepted run, freed when a worker is done with it
 
 	base       context.Context // cancelled when Close gives up waiting
 	cancelBase context.CancelCauseFunc
@@ -90,7 +91,8 @@ func New(workers, queueDepth int, perRun time.Duration) *Queue {
 		workers:    workers,
 		depth:      queueDepth,
 		perRun:     perRun,
-		jobs:       make(chan *job, queueDepth),
+		jobs:       make(chan *job, workers+queueDepth),
+		slots:      make(chan struct{}, workers+queueDepth),
 		base:       base,
 		cancelBase: cancel,
 	}
@@ -113,8 +115,8 @@ func (q *Queue) PerRun() time.Duration { return max(q.perRun, 0) }
 // Busy reports how many runs are in progress right now.
 func (q *Queue) Busy() int { return int(q.busy.Load()) }
 
-// Waiting reports how many runs are waiting for a worker right now.
-func (q *Queue) Waiting() int { return len(q.jobs) }
+// Waiting reports how many accepted runs are waiting for a worker right now.
+func (q *Queue) Waiting() int { return max(len(q.slots)-q.Busy(), 0) }
 
 // Do runs fn on a worker and returns its error. It returns ErrFull at once
 // when no worker is free and the waiting room is full, and ErrClosed after
@@ -152,7 +154,8 @@ func (q *Queue) submit(j *job) error {
 		return ErrClosed
 	}
 	select {
-	case q.jobs <- j:
+	case q.slots <- struct{}{}:
+		q.jobs <- j // cannot block: len(jobs) ≤ len(slots) ≤ cap(jobs)
 		return nil
 	default:
 		return ErrFull
@@ -162,12 +165,19 @@ func (q *Queue) submit(j *job) error {
 func (q *Queue) work() {
 	defer q.wg.Done()
 	for j := range q.jobs {
-		if !j.state.CompareAndSwap(queued, running) {
-			continue // the caller gave up while it waited
+		switch {
+		case !j.state.CompareAndSwap(queued, running):
+			<-q.slots // the caller gave up while it waited
+		case q.base.Err() != nil:
+			<-q.slots
+			j.done <- errShutdown // Close gave up: do not start new work
+		default:
+			q.busy.Add(1)
+			err := q.run(j)
+			q.busy.Add(-1)
+			<-q.slots // free the slot before the caller hears back
+			j.done <- err
 		}
-		q.busy.Add(1)
-		j.done <- q.run(j)
-		q.busy.Add(-1)
 	}
 }
 
