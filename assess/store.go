@@ -68,8 +68,8 @@ type Store interface {
 	// GetMember returns the member with the given ID or ErrNotFound.
 	GetMember(ctx context.Context, id int64) (*MemberRecord, error)
 
-	// ListMembers returns the members of a project in ID order, each with its
-	// Input. A missing project gives ErrNotFound.
+	// ListMembers returns the members of a project in ID order, without their
+	// Input (nil; GetMember returns it). A missing project gives ErrNotFound.
 	ListMembers(ctx context.Context, projectID int64, pg Page) ([]MemberRecord, error)
 
 	// UpdateMember stores m's Label, Location, Kind and Input if m.Version is

@@ -137,6 +137,10 @@ const memberColumns = `
 		created_at,
 		updated_at`
 
+// memberListColumns is memberColumns without the input document, which a
+// listing does not return (it is most of a row's size).
+var memberListColumns = strings.Replace(memberColumns, "input,", "NULL AS input,", 1)
+
 func createMember(ctx context.Context, tx pgx.Tx, m *assess.MemberRecord, now time.Time) error {
 	if _, err := lockLiveProject(ctx, tx, m.ProjectID); err != nil {
 		return err
@@ -200,7 +204,7 @@ func listMembers(ctx context.Context, tx pgx.Tx, projectID int64, pg assess.Page
 	if pg.AfterID > 0 {
 		where = append(where, "id > "+a.add(pg.AfterID))
 	}
-	rows, _ := tx.Query(ctx, `SELECT`+memberColumns+`
+	rows, _ := tx.Query(ctx, `SELECT`+memberListColumns+`
 		FROM members
 		WHERE `+strings.Join(where, " AND ")+`
 		ORDER BY id

@@ -132,6 +132,10 @@ const memberColumns = `
 		created_at,
 		updated_at`
 
+// memberListColumns is memberColumns without the input document, which a
+// listing does not return (it is most of a row's size).
+var memberListColumns = strings.Replace(memberColumns, "input,", "NULL AS input,", 1)
+
 func scanMember(row interface{ Scan(...any) error }) (*assess.MemberRecord, error) {
 	var (
 		mr               assess.MemberRecord
@@ -186,7 +190,7 @@ func listMembers(ctx context.Context, tx *txn, projectID int64, pg assess.Page) 
 		where, args = append(where, "id > ?"), append(args, pg.AfterID)
 	}
 	args = append(args, pg.Limit, pg.Offset)
-	rows, err := tx.QueryContext(ctx, `SELECT`+memberColumns+`
+	rows, err := tx.QueryContext(ctx, `SELECT`+memberListColumns+`
 		FROM members
 		WHERE `+strings.Join(where, " AND ")+`
 		ORDER BY id

@@ -371,7 +371,9 @@ func testMemberCRUD(t *testing.T, s assess.Store) {
 
 	list, err := s.ListMembers(ctx, p.ID, assess.Page{})
 	must(t, err)
-	if diff := cmp.Diff([]assess.MemberRecord{*got, *slab}, list); diff != "" {
+	wantGot, wantSlab := *got, *slab
+	wantGot.Input, wantSlab.Input = nil, nil // listings leave the input document out
+	if diff := cmp.Diff([]assess.MemberRecord{wantGot, wantSlab}, list); diff != "" {
 		t.Errorf("ListMembers (-want +got):\n%s", diff)
 	}
 
@@ -1101,8 +1103,11 @@ func testJSONRoundTrip(t *testing.T, s assess.Store) {
 	}
 	list, err := s.ListMembers(ctx, p.ID, assess.Page{})
 	must(t, err)
-	if len(list) != 1 || !bytes.Equal(list[0].Input, input) {
-		t.Errorf("listed member input changed")
+	if len(list) != 1 {
+		t.Fatalf("ListMembers gave %d members, want 1", len(list))
+	}
+	if list[0].Input != nil {
+		t.Errorf("ListMembers gave the input %q; want none (listings leave it out)", list[0].Input)
 	}
 
 	result := json.RawMessage(`{"field":{"nx":3,"ny":2,"peak_c":[812.4,null,640.25,598.125,null,420]}, "fit" : {}}`)
