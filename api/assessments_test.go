@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"errors"
 	"net/http"
-	"strconv"
 	"sync"
 	"testing"
 	"time"
@@ -50,8 +49,8 @@ func TestAssessmentLifecycle(t *testing.T) {
 	if recs[0].SaggingRatio == nil || *recs[0].SaggingRatio != res1.Capacity.Sagging.Ratio {
 		t.Errorf("sagging_ratio = %v, want the result's %g", recs[0].SaggingRatio, res1.Capacity.Sagging.Ratio)
 	}
-	if recs[0].DamageClass != strconv.Itoa(res1.Damage.Class) || recs[0].Action != res1.Action {
-		t.Errorf("damage class %q action %q, want %d %q", recs[0].DamageClass, recs[0].Action, res1.Damage.Class, res1.Action)
+	if recs[0].DamageClass != res1.Damage.Label || recs[0].Action != res1.Action {
+		t.Errorf("damage class %q action %q, want %q %q", recs[0].DamageClass, recs[0].Action, res1.Damage.Label, res1.Action)
 	}
 
 	res := e.do("GET", path, nil)

@@ -1,12 +1,10 @@
 package api
 
 import (
-	"bytes"
 	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
-	"strconv"
 
 	"residuum/assess"
 	"residuum/internal/runqueue"
@@ -76,38 +74,14 @@ func Assess(ctx context.Context, store assess.Store, q *runqueue.Queue, m *asses
 	if err != nil {
 		return nil, err
 	}
-	raw, err := assess.MarshalJSON(res)
+	a, err := assess.NewAssessmentRecord(m.ID, m.Input, res, author)
 	if err != nil {
-		return nil, fmt.Errorf("encode result of member %d: %w", m.ID, err)
-	}
-	a := &assess.AssessmentRecord{
-		MemberID:      m.ID,
-		Input:         bytes.Clone(m.Input),
-		Result:        raw,
-		MethodVersion: assess.MethodVersion,
-		InputHash:     assess.InputSHA256(in),
-		Author:        author,
-		State:         assess.StateDraft,
-		SaggingRatio:  ratio(res.Capacity.Sagging),
-		HoggingRatio:  ratio(res.Capacity.Hogging),
-		DamageClass:   strconv.Itoa(res.Damage.Class),
-		Action:        res.Action,
+		return nil, err
 	}
 	if err := store.CreateAssessment(ctx, a); err != nil {
 		return nil, fmt.Errorf("store assessment of member %d: %w", m.ID, err)
 	}
 	return a, nil
-}
-
-// ratio is the summary column of one direction: residual over undamaged
-// capacity, or nil where the section has no capacity in that direction
-// (nothing to compare, e.g. hogging of a member without top steel).
-func ratio(d assess.Direction) *float64 {
-	if !(d.UndamagedKNm > 0) {
-		return nil
-	}
-	r := d.Ratio
-	return &r
 }
 
 // resultJSON encodes a result exactly as `residuum assess -format json`

@@ -2,7 +2,6 @@ package web
 
 import (
 	"context"
-	"encoding/json"
 	"errors"
 	"fmt"
 	"net/http"
@@ -64,7 +63,7 @@ func (s *server) startRun(p *assess.Project, m *assess.MemberRecord) (*job, erro
 			j.finish(0, 0, err)
 			return
 		}
-		rec, err := assessmentRecord(m.ID, entered, res)
+		rec, err := assess.NewAssessmentRecord(m.ID, entered, res, "web")
 		if err == nil {
 			// the run is over; storing it must not be undone by a late cancel
 			err = s.Store.CreateAssessment(context.WithoutCancel(ctx), rec)
@@ -77,26 +76,6 @@ func (s *server) startRun(p *assess.Project, m *assess.MemberRecord) (*job, erro
 		j.finish(rec.Revision, rec.ID, nil)
 	}()
 	return j, nil
-}
-
-// assessmentRecord makes the stored revision of a result, with the triage columns filled.
-func assessmentRecord(memberID int64, input json.RawMessage, res *assess.Result) (*assess.AssessmentRecord, error) {
-	raw, err := json.Marshal(res)
-	if err != nil {
-		return nil, fmt.Errorf("encode result: %w", err)
-	}
-	rec := &assess.AssessmentRecord{MemberID: memberID, Input: input, Result: raw, MethodVersion: res.MethodVersion,
-		InputHash: res.InputSHA256, Author: "web", State: assess.StateDraft,
-		DamageClass: res.Damage.Label, Action: res.Action}
-	ratio := func(d assess.Direction) *float64 {
-		if d.UndamagedKNm > 0 && d.Ratio >= 0 && d.Ratio <= 100 {
-			r := d.Ratio
-			return &r
-		}
-		return nil
-	}
-	rec.SaggingRatio, rec.HoggingRatio = ratio(res.Capacity.Sagging), ratio(res.Capacity.Hogging)
-	return rec, nil
 }
 
 func (s *server) handleRun() http.HandlerFunc {
