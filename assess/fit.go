@@ -40,6 +40,97 @@ func (rn *runner) family(fo *FitOptions) family {
 	}}
 }
 
+// fitProgress spreads the progress of a fit over its thermal solutions. Their
+// number is not known in advance, so the work done w, in member-solution
+// equivalents and advancing continuously within each solution (thermal
+// Options.Progress), is mapped to lo + (hi − lo)·(1 − e^(−w/scale)); the scale
+// is a third of the expected work, so a typical fit ends near 95 % of its
+// share and the rest is reported at the end. Reports never go back.
+type fitProgress struct {
+	report func(stage string, frac float64)
+	lo, hi float64
+	scale  float64
+	done   float64 // work of the finished solutions
+	last   float64
+}
+
+// newFitProgress starts the fit's share [lo, hi] of the run's progress.
+func (rn *runner) newFitProgress(lo, hi float64, faces int) *fitProgress {
+	g := rn.g
+	cells := 0
+	for j := 0; j < g.ny; j++ {
+		for i := 0; i < g.nx; i++ {
+			if g.inOutline(i, j) {
+				cells++
+			}
+		}
+	}
+	// A fit makes about ten member solutions (a slab about three: its strip
+	// is its own model) and strip solutions at about sixty severities per
+	// observed face; a strip costs its cells over the member's.
+	members, strip := 10.0, 1.0
+	if g.slab {
+		members = 3
+	} else if cells > 0 {
+		strip = math.Min(1, float64(g.ny)/float64(cells))
+	}
+	expect := members + 60*float64(max(faces, 1))*strip
+	p := &fitProgress{report: rn.prog, lo: lo, hi: hi, scale: expect / 3, last: lo}
+	p.report("fit", lo)
+	return p
+}
+
+// within returns the thermal progress callback of a solution of the given
+// weight (nil on a nil tracker).
+func (p *fitProgress) within(weight float64) func(float64) {
+	if p == nil {
+		return nil
+	}
+	return func(f float64) { p.at(p.done + weight*math.Max(0, math.Min(1, f))) }
+}
+
+// finish books a finished solution of the given weight.
+func (p *fitProgress) finish(weight float64) {
+	if p == nil {
+		return
+	}
+	p.done += weight
+	p.at(p.done)
+}
+
+// end reports the whole share done.
+func (p *fitProgress) end() {
+	if p != nil && p.hi > p.last {
+		p.last = p.hi
+		p.report("fit", p.hi)
+	}
+}
+
+func (p *fitProgress) at(w float64) {
+	v := p.lo + (p.hi-p.lo)*(1-math.Exp(-w/p.scale))
+	// steps under 0.1 % of the run are not worth a report
+	if v >= p.last+0.001 && v <= p.hi {
+		p.last = v
+		p.report("fit", v)
+	}
+}
+
+// stripWeight is the cost of a strip solution in member solutions.
+func (rn *runner) stripWeight(face string) float64 {
+	if rn.g.slab {
+		return 1
+	}
+	cells := 0
+	for j := 0; j < rn.g.ny; j++ {
+		for i := 0; i < rn.g.nx; i++ {
+			if rn.g.inOutline(i, j) {
+				cells++
+			}
+		}
+	}
+	return math.Min(1, rn.g.thickness(face)/rn.g.cell/math.Max(1, float64(cells)))
+}
+
 // fitOutcome is what the fit hands to the rest of the run.
 type fitOutcome struct {
 	result      *FitResult
@@ -124,7 +215,9 @@ func (s *surrogate) depths(v float64) ([]float64, error) {
 		if !ok {
 			sh := rn.oneD(o.Face)
 			s.n++
-			f, err = thermal.Solve(rn.ctx, sh, exp, rn.tc, nil)
+			w := rn.stripWeight(o.Face)
+			f, err = thermal.Solve(rn.ctx, sh, exp, rn.tc, &thermal.Options{Progress: rn.fitProg.within(w)})
+			rn.fitProg.finish(w)
 			if err != nil {
 				if e := rn.ctx.Err(); e != nil {
 					return nil, e
@@ -335,9 +428,11 @@ func (s *surrogate) addPoint(v float64, field *thermal.Field, exp thermal.Exposu
 		if err != nil {
 			return nil, fmt.Errorf("fit: %w", err)
 		}
-		if field, err = rn.solve2D(exp, nil); err != nil {
+		field, err = rn.solve2D(exp, rn.fitProg.within(1))
+		if err != nil {
 			return nil, err
 		}
+		rn.fitProg.finish(1)
 	}
 	d1, err := s.depths(v)
 	if err != nil {
@@ -376,7 +471,7 @@ func chiOf(d []float64, obs []ColourDepth) float64 {
 
 // fitMember runs the fit to convergence on the member's own model and
 // returns the best member solution and the Δχ² ≤ 1 range.
-func (s *surrogate) fitMember(progress func(float64)) (*point, [2]float64, error) {
+func (s *surrogate) fitMember() (*point, [2]float64, error) {
 	v, _, err := s.minimise()
 	if err != nil {
 		return nil, [2]float64{}, err
@@ -390,7 +485,6 @@ func (s *surrogate) fitMember(progress func(float64)) (*point, [2]float64, error
 		if best, err = s.addPoint(v, nil, nil); err != nil {
 			return nil, [2]float64{}, err
 		}
-		progress(float64(iter+1) / 8)
 		if s.rn.g.slab {
 			break // the surrogate is the member's own model
 		}
@@ -417,7 +511,6 @@ func (s *surrogate) fitMember(progress func(float64)) (*point, [2]float64, error
 				return nil, [2]float64{}, err
 			}
 		}
-		progress(1)
 		bestChi := math.Inf(1)
 		for k := range s.pts {
 			if c := chiOf(s.pts[k].d2, s.obs); c < bestChi {
@@ -438,8 +531,9 @@ func (rn *runner) fitEvidence() (*fitOutcome, error) {
 	obs := rn.in.Evidence.ColourDepths
 	fam := rn.family(rn.in.Options.Fit)
 	s := &surrogate{rn: rn, fam: fam, obs: obs, cache: map[float64][]float64{}}
-	rn.prog("fit", 0.02)
-	best, rng, err := s.fitMember(func(f float64) { rn.prog("fit", 0.02+0.4*f) })
+	rn.fitProg = rn.newFitProgress(0.02, 0.65, observedFaces(obs))
+	defer func() { rn.fitProg = nil }()
+	best, rng, err := s.fitMember()
 	if err != nil {
 		return nil, err
 	}
@@ -464,7 +558,6 @@ func (rn *runner) fitEvidence() (*fitOutcome, error) {
 		if rng, err = s.interval(bv, chiOf(bd, obs)); err != nil {
 			return nil, err
 		}
-		rn.prog("fit", 0.5+0.1*float64(pass))
 	}
 	out := &fitOutcome{field: bfield, exposure: bexp, fitted: true}
 	for k, e := range rng {
@@ -484,8 +577,17 @@ func (rn *runner) fitEvidence() (*fitOutcome, error) {
 	}
 	out.result = rn.fitResult(fam, bv, rng, bd, obs)
 	out.result.Trials, out.result.StripSolutions = rn.solves, s.n
-	rn.prog("fit", 0.65)
+	rn.fitProg.end()
 	return out, nil
+}
+
+// observedFaces counts the distinct faces of the observations.
+func observedFaces(obs []ColourDepth) int {
+	seen := map[string]bool{}
+	for _, o := range obs {
+		seen[o.Face] = true
+	}
+	return len(seen)
 }
 
 // fitResult assembles the reported fit at v with the member's depths d.
@@ -570,8 +672,9 @@ func (rn *runner) checkScenario(field *thermal.Field, exp thermal.Exposure) (*fi
 			return nil, err
 		}
 	}
-	rn.prog("fit", 0.62)
-	best, rng, err := s.fitMember(func(f float64) { rn.prog("fit", 0.62+0.06*f) })
+	rn.fitProg = rn.newFitProgress(0.62, 0.68, observedFaces(obs))
+	defer func() { rn.fitProg = nil }()
+	best, rng, err := s.fitMember()
 	if err != nil {
 		return nil, err
 	}
@@ -598,6 +701,6 @@ func (rn *runner) checkScenario(field *thermal.Field, exp thermal.Exposure) (*fi
 	}
 	fr.Message = fmt.Sprintf("the given fire is %s with the evidence (worst misfit %.1f standard deviations); ", fr.Agreement, worst) + fr.Message
 	fr.Trials, fr.StripSolutions = rn.solves, s.n
-	rn.prog("fit", 0.68)
+	rn.fitProg.end()
 	return &fitOutcome{result: fr}, nil
 }

@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"math"
+	"os"
 	"strings"
 	"testing"
 )
@@ -256,4 +257,77 @@ func TestFitParametricFireLoad(t *testing.T) {
 	if res.Fit.Parameter != "fire_load_mj_m2" || res.Fit.DurationMin != nil {
 		t.Errorf("parameter %q", res.Fit.Parameter)
 	}
+}
+
+// progressLog records the progress reports of a run.
+type progressLog struct {
+	stages []string
+	fracs  []float64
+}
+
+func (p *progressLog) record(stage string, frac float64) {
+	p.stages = append(p.stages, stage)
+	p.fracs = append(p.fracs, frac)
+}
+
+// TestFitProgressSmooth: during an evidence fit the progress advances within
+// each thermal solution, not only between them, and stays monotonic overall
+// (a requirement of the web pages' progress bar; no published source). The
+// beam of testdata/beam-colour-fit.json at 20 mm cells makes about ten member
+// solutions; the fit stage must give several times as many distinct reports,
+// no step of the fit stage may exceed 0.05 of the whole run (the old
+// once-per-solution progress stepped 0.05 per member solution), and the run
+// must end at exactly 1.
+func TestFitProgressSmooth(t *testing.T) {
+	in, err := DecodeBytes(mutate(t, mustRead(t, "../testdata/beam-colour-fit.json"), "options.cell_mm", 20))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		in   Input
+	}{{"beam evidence fit", in}, {"slab evidence fit", slabFit()}} {
+		var log progressLog
+		res, err := Run(context.Background(), c.in, &RunOptions{Progress: log.record})
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if len(log.fracs) == 0 || log.fracs[len(log.fracs)-1] != 1 {
+			t.Fatalf("%s: progress %v does not end at 1", c.name, log.fracs)
+		}
+		fitReports, maxStep := 0, 0.0
+		for k, f := range log.fracs {
+			if f < 0 || f > 1 {
+				t.Errorf("%s: progress %g outside [0, 1]", c.name, f)
+			}
+			if k > 0 {
+				if f < log.fracs[k-1] {
+					t.Errorf("%s: progress went back from %g to %g (%s → %s)", c.name, log.fracs[k-1], f, log.stages[k-1], log.stages[k])
+				}
+				if log.stages[k] == "fit" && log.stages[k-1] == "fit" {
+					maxStep = math.Max(maxStep, f-log.fracs[k-1])
+				}
+			}
+			if log.stages[k] == "fit" {
+				fitReports++
+			}
+		}
+		solves := res.Fit.Trials
+		if fitReports < 3*solves {
+			t.Errorf("%s: %d fit progress reports for %d member solutions, want at least 3 per solution", c.name, fitReports, solves)
+		}
+		if maxStep > 0.05 {
+			t.Errorf("%s: largest progress step in the fit %.3f, want ≤ 0.05", c.name, maxStep)
+		}
+		t.Logf("%s: %d reports in the fit for %d member and %d strip solutions, largest step %.4f", c.name, fitReports, solves, res.Fit.StripSolutions, maxStep)
+	}
+}
+
+func mustRead(t *testing.T, path string) string {
+	t.Helper()
+	b, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
 }

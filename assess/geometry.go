@@ -147,6 +147,16 @@ type barSpec struct {
 	PrestressMPa float64
 	Face         string // the layer's face, or the nearest face for single bars
 	CoverMM      float64
+	Layer        int // index in Member.Layers, -1 for a single bar
+}
+
+// barArea is the area of one bar, wire or strand: the given nominal area, or
+// π·d²/4 when none is given, mm².
+func barArea(dia, nominal float64) float64 {
+	if nominal > 0 {
+		return nominal
+	}
+	return math.Pi * dia * dia / 4
 }
 
 // layerY is the height of the bar centres of a layer.
@@ -168,33 +178,134 @@ func (m *Member) layerSpan(l Layer) (x0, x1 float64) {
 	return w0 + edge, w1 - edge
 }
 
+// maxLayerBars bounds the bars BarPositions places for one layer of an
+// unvalidated member (a validated one has at most maxBars in all).
+const maxLayerBars = maxBars
+
+// layerBarXs returns the x of each bar centre of a layer, left to right, at
+// most limit of them. A beam layer spreads its Count bars evenly between the
+// side covers (one bar: at mid-span); a slab layer places its bars at
+// SpacingMM from half a spacing in from the left edge, across the width.
+func (m *Member) layerBarXs(l Layer, limit int) []float64 {
+	var xs []float64
+	if m.Kind == KindSlab {
+		if !(l.SpacingMM > 0) || !(m.WidthMM > 0) {
+			return nil
+		}
+		for k := 0; k < limit; k++ {
+			x := l.SpacingMM/2 + float64(k)*l.SpacingMM
+			if !(x < m.WidthMM) {
+				break
+			}
+			xs = append(xs, x)
+		}
+		return xs
+	}
+	n := min(l.Count, limit)
+	x0, x1 := m.layerSpan(l)
+	for i := 0; i < n; i++ {
+		x := (x0 + x1) / 2
+		if n > 1 {
+			x = x0 + (x1-x0)*float64(i)/float64(n-1)
+		}
+		xs = append(xs, x)
+	}
+	return xs
+}
+
+// BarPosition is one bar of a member as the engine lays it out.
+type BarPosition struct {
+	// XMM, YMM: the bar centre, mm; x from the left edge of the section's
+	// bounding box (a T-beam's flange tip), y from its bottom.
+	XMM   float64 `json:"x_mm"`
+	YMM   float64 `json:"y_mm"`
+	DiaMM float64 `json:"dia_mm"`
+	Steel string  `json:"steel"`
+	// Face is the layer's face ("bottom" | "top"), or for a single bar the
+	// nearest face; CoverMM is from that face to the bar surface, mm (links included).
+	Face    string  `json:"face"`
+	CoverMM float64 `json:"cover_mm"`
+	// Layer is the index in Member.Layers, or -1 for a bar of Member.Bars;
+	// Index is the bar's place in its layer (left to right) or in Member.Bars.
+	Layer int `json:"layer"`
+	Index int `json:"index"`
+}
+
+// BarPositions lists every bar of the member as the engine places it: layers
+// first (in order, bars left to right), then the single bars. A layer's bar
+// centres sit at cover + link diameter + ½ bar diameter from its face; a beam
+// layer spreads its bars evenly between the side covers (a T-beam's top layer
+// across the flange, a bottom layer within the web); a slab layer places its
+// bars at its spacing from half a spacing in from the left edge (the analysis
+// lumps them per layer at mid-width). Single bars are where they are given.
+//
+// It works on unvalidated input for drawings: the defaults of Normalize that
+// affect positions are applied to a copy (slab width 1000 mm, steel
+// "hot-rolled"; a slab has no links), a layer that cannot be placed (diameter
+// not positive, cover negative, no count or spacing) and a single bar without
+// a positive diameter are left out, and at most 200 bars are placed per layer.
+func (m *Member) BarPositions() []BarPosition {
+	mm := *m
+	if mm.Kind == KindSlab {
+		if mm.WidthMM == 0 {
+			mm.WidthMM = 1000
+		}
+		mm.LinkDiaMM = 0
+	}
+	if !(mm.LinkDiaMM > 0) {
+		mm.LinkDiaMM = 0
+	}
+	steel := func(s string) string {
+		if s == "" {
+			return SteelHotRolled
+		}
+		return s
+	}
+	var out []BarPosition
+	for li, l := range mm.Layers {
+		if !(l.DiaMM > 0) || !(l.CoverMM >= 0) {
+			continue
+		}
+		y := mm.layerY(l)
+		for i, x := range mm.layerBarXs(l, maxLayerBars) {
+			out = append(out, BarPosition{XMM: x, YMM: y, DiaMM: l.DiaMM, Steel: steel(l.Steel), Face: l.Face,
+				CoverMM: l.CoverMM + mm.LinkDiaMM, Layer: li, Index: i})
+		}
+	}
+	for bi, b := range mm.Bars {
+		if !(b.DiaMM > 0) {
+			continue
+		}
+		face, cover := mm.nearestFace(b.XMM, b.YMM, b.DiaMM)
+		out = append(out, BarPosition{XMM: b.XMM, YMM: b.YMM, DiaMM: b.DiaMM, Steel: steel(b.Steel), Face: face,
+			CoverMM: cover, Layer: -1, Index: bi})
+	}
+	return out
+}
+
 // barSpecs lists the steel fibres of a normalised member: layers first (in
-// order, bars left to right), then the single bars.
+// order, bars left to right, placed by layerBarXs as BarPositions places
+// them), then the single bars. A slab layer is one fibre at mid-width.
 func (m *Member) barSpecs() []barSpec {
 	var out []barSpec
 	for li, l := range m.Layers {
 		y := m.layerY(l)
-		area := math.Pi * l.DiaMM * l.DiaMM / 4
+		area := barArea(l.DiaMM, l.AreaMM2)
 		if m.Kind == KindSlab {
 			n := m.WidthMM / l.SpacingMM
 			out = append(out, barSpec{
 				Label: fmt.Sprintf("layer %d (%s, %.0f mm at %.0f mm)", li+1, l.Face, l.DiaMM, l.SpacingMM),
 				XMM:   m.WidthMM / 2, YMM: y, DiaMM: l.DiaMM, AreaMM2: area * n, Count: n,
-				Steel: l.Steel, FykMPa: l.FykMPa, PrestressMPa: l.PrestressMPa, Face: l.Face, CoverMM: l.CoverMM,
+				Steel: l.Steel, FykMPa: l.FykMPa, PrestressMPa: l.PrestressMPa, Face: l.Face, CoverMM: l.CoverMM, Layer: li,
 			})
 			continue
 		}
-		x0, x1 := m.layerSpan(l)
-		for i := 0; i < l.Count; i++ {
-			x := (x0 + x1) / 2
-			if l.Count > 1 {
-				x = x0 + (x1-x0)*float64(i)/float64(l.Count-1)
-			}
+		for i, x := range m.layerBarXs(l, l.Count) {
 			out = append(out, barSpec{
 				Label: fmt.Sprintf("layer %d bar %d", li+1, i+1),
 				XMM:   x, YMM: y, DiaMM: l.DiaMM, AreaMM2: area, Count: 1,
 				Steel: l.Steel, FykMPa: l.FykMPa, PrestressMPa: l.PrestressMPa, Face: l.Face,
-				CoverMM: l.CoverMM + m.LinkDiaMM,
+				CoverMM: l.CoverMM + m.LinkDiaMM, Layer: li,
 			})
 		}
 	}
@@ -202,8 +313,8 @@ func (m *Member) barSpecs() []barSpec {
 		face, cover := m.nearestFace(b.XMM, b.YMM, b.DiaMM)
 		out = append(out, barSpec{
 			Label: fmt.Sprintf("bar %d", bi+1),
-			XMM:   b.XMM, YMM: b.YMM, DiaMM: b.DiaMM, AreaMM2: math.Pi * b.DiaMM * b.DiaMM / 4, Count: 1,
-			Steel: b.Steel, FykMPa: b.FykMPa, PrestressMPa: b.PrestressMPa, Face: face, CoverMM: cover,
+			XMM:   b.XMM, YMM: b.YMM, DiaMM: b.DiaMM, AreaMM2: barArea(b.DiaMM, b.AreaMM2), Count: 1,
+			Steel: b.Steel, FykMPa: b.FykMPa, PrestressMPa: b.PrestressMPa, Face: face, CoverMM: cover, Layer: -1,
 		})
 	}
 	return out
@@ -233,17 +344,39 @@ func (m *Member) nearestFace(x, y, d float64) (string, float64) {
 	return best, cover
 }
 
-// barSurfaceToward returns the point of a bar's surface closest to a face.
-func barSurfaceToward(b barSpec, face string) (x, y float64) {
+// coverToward returns the concrete between bar b and a face, along the face's
+// inward normal (mm, from the face's original surface to the bar surface), and
+// the bar centre's position along the face in the measure of spalling ranges
+// (x for bottom/top, y for left/right). ok is false where the face does not
+// lie in front of the bar (a web side for a bar in a T-beam's flange, a side
+// of a slab). Under a T-beam's flange outstand the bottom face is the
+// outstand's soffit.
+func (m *Member) coverToward(b barSpec, face string) (cover, along float64, ok bool) {
+	const eps = 1e-9
 	r := b.DiaMM / 2
+	w0, w1 := m.web()
+	hw := m.DepthMM
+	if m.isT() {
+		hw = m.DepthMM - m.FlangeDepthMM
+	}
 	switch face {
 	case "bottom":
-		return b.XMM, b.YMM - r
+		if m.isT() && (b.XMM < w0 || b.XMM > w1) {
+			return b.YMM - r - hw, b.XMM, b.YMM-r >= hw-eps
+		}
+		return b.YMM - r, b.XMM, true
 	case "top":
-		return b.XMM, b.YMM + r
+		return m.DepthMM - b.YMM - r, b.XMM, true
 	case "left":
-		return b.XMM - r, b.YMM
-	default:
-		return b.XMM + r, b.YMM
+		if m.Kind == KindSlab || b.YMM > hw+eps || b.XMM < w0 {
+			return 0, 0, false
+		}
+		return b.XMM - r - w0, b.YMM, true
+	case "right":
+		if m.Kind == KindSlab || b.YMM > hw+eps || b.XMM > w1 {
+			return 0, 0, false
+		}
+		return w1 - b.XMM - r, b.YMM, true
 	}
+	return 0, 0, false
 }

@@ -102,6 +102,10 @@ type Layer struct {
 	FykMPa    float64 `json:"fyk_mpa"` // characteristic yield (0.1 % proof for prestressing)
 	// PrestressMPa is the effective prestress after losses (prestressing steel only, 0 = passive).
 	PrestressMPa float64 `json:"prestress_mpa,omitempty"`
+	// AreaMM2 is the nominal cross-section area of one bar, wire or strand, mm²
+	// (0 = π·dia_mm²/4, a solid bar or wire; a seven-wire strand's nominal area
+	// is about 0.75 of the circle of its nominal diameter, EN 10138-3).
+	AreaMM2 float64 `json:"area_mm2,omitempty"`
 }
 
 // Bar is one bar placed by its centre, from the section's bottom-left corner.
@@ -112,6 +116,8 @@ type Bar struct {
 	Steel        string  `json:"steel"`
 	FykMPa       float64 `json:"fyk_mpa"`
 	PrestressMPa float64 `json:"prestress_mpa,omitempty"`
+	// AreaMM2 is the nominal cross-section area, mm² (0 = π·dia_mm²/4; see Layer.AreaMM2).
+	AreaMM2 float64 `json:"area_mm2,omitempty"`
 }
 
 // Fire is the fire scenario: a nominal curve cut at DurationMin and cooled,
@@ -148,7 +154,12 @@ type ProgressiveSpall struct {
 type Evidence struct {
 	ColourDepths []ColourDepth   `json:"colour_depths,omitempty"`
 	Spalling     []MeasuredSpall `json:"spalling,omitempty"`
-	Notes        string          `json:"notes,omitempty"`
+	// ExposedBars has one entry per member.layers entry, in order: true where
+	// the assessor saw bars of that layer exposed on site (absent or empty: none
+	// reported). The layer's bars then count as exposed for the damage class and
+	// the bond caution even where no measured spalling reaches them.
+	ExposedBars []bool `json:"exposed_bars,omitempty"`
+	Notes       string `json:"notes,omitempty"`
 }
 
 // ColourDepth is a measured depth, from the (current) face, of the boundary

@@ -30,8 +30,9 @@ type judgeInput struct {
 	fire           bool
 	d300, d600     float64 // deepest computed/measured depth over the exposed faces, mm (0 = not reached)
 	maxSpallMM     float64
-	barsTotal      float64 // bars counted (slab groups count their bars)
-	barsExposed    float64
+	barsTotal      float64      // bars counted (slab groups count their bars)
+	barsExposed    float64      // exposed by the spalled surface or seen exposed on site
+	barsSeen       float64      // seen exposed on site (evidence.exposed_bars)
 	hotBar         *RebarResult // the bar furthest above (or nearest to) its threshold
 	ratio          float64      // minimum relevant residual/undamaged ratio; NaN if none relevant
 	ratioDir       string
@@ -69,8 +70,14 @@ func judge(j judgeInput) (Damage, string, string) {
 		} else if frac > 0.1 {
 			class = 3
 		}
-		add("exposed-bars", class, srcTR68+"; bar fractions ~10 % / ~50 % of TR68 applied to the bars of the cross-section",
-			"spalling exposes %.0f of %.0f bars (%.0f %%); bond of exposed bars is lost", j.barsExposed, j.barsTotal, 100*frac)
+		src := srcTR68 + "; bar fractions ~10 % / ~50 % of TR68 applied to the bars of the cross-section"
+		if j.barsSeen > 0 {
+			add("exposed-bars", class, src+"; a layer reported exposed on site counts with all its bars",
+				"%.0f of %.0f bars exposed (%.0f %%; %.0f in layers seen exposed on site); bond of exposed bars is lost", j.barsExposed, j.barsTotal, 100*frac, j.barsSeen)
+		} else {
+			add("exposed-bars", class, src,
+				"spalling exposes %.0f of %.0f bars (%.0f %%); bond of exposed bars is lost", j.barsExposed, j.barsTotal, 100*frac)
+		}
 	case j.maxSpallMM >= 10:
 		add("spalling", 2, srcTR68+"; 10 mm: "+srcOwn, "spalling to %.0f mm, bars not exposed (localised patches)", j.maxSpallMM)
 	case j.maxSpallMM > 0:

@@ -1,6 +1,8 @@
 package assess
 
 import (
+	"context"
+	"encoding/json"
 	"math"
 	"path/filepath"
 	"strings"
@@ -162,5 +164,205 @@ func TestModelOptions(t *testing.T) {
 	}
 	if res.Capacity.Sagging.UndamagedKNm != def.Capacity.Sagging.UndamagedKNm {
 		t.Error("the model options changed the undamaged capacity")
+	}
+}
+
+// TestExposedBarsOnSite: evidence.exposed_bars (DESIGN.md §4) makes a layer's
+// bars count as exposed without any spalling geometry. The 300 × 600 mm beam
+// of testdata/beam-3side-iso90.json has 4 bottom and 2 top bars; reporting
+// the bottom layer exposed exposes 4 of 6 bars (67 % > ~50 %), which the TR68
+// beam/floor table (research/residual.md §4.1, from memory [M]) places in
+// class 4, and brings the bond caution (research/residual.md §5.1). The flag
+// is a judgement input only: every capacity must stay exactly as it was.
+func TestExposedBarsOnSite(t *testing.T) {
+	base := []byte(`{
+  "member": {"kind": "beam", "width_mm": 300, "depth_mm": 600,
+    "concrete": {"fck_mpa": 30, "aggregate": "siliceous", "moisture_pct": 1.5},
+    "layers": [
+      {"face": "bottom", "cover_mm": 30, "count": 4, "dia_mm": 20, "steel": "hot-rolled", "fyk_mpa": 500},
+      {"face": "top", "cover_mm": 30, "count": 2, "dia_mm": 12, "steel": "hot-rolled", "fyk_mpa": 500}],
+    "link_dia_mm": 10, "exposed": ["bottom", "left", "right"]},
+  "fire": {"curve": "iso834", "duration_min": 30},
+  "options": {"cell_mm": 20}
+}`)
+	run := func(data []byte) *Result {
+		t.Helper()
+		in, err := DecodeBytes(data)
+		if err != nil {
+			t.Fatalf("decode: %v", err)
+		}
+		res, err := Run(context.Background(), in, nil)
+		if err != nil {
+			t.Fatalf("run: %v", err)
+		}
+		return res
+	}
+	plain := run(base)
+	seen := run(mutate(t, string(base), "evidence.exposed_bars", []any{true, false}))
+	for _, r := range plain.Damage.Reasons {
+		if r.Indicator == "exposed-bars" {
+			t.Fatalf("without exposed_bars the class already has an exposed-bars reason: %+v", r)
+		}
+	}
+	if plain.Damage.Class == 4 {
+		t.Fatalf("the 30 min case is already class 4; the test could not fail")
+	}
+	var reason *Reason
+	for i, r := range seen.Damage.Reasons {
+		if r.Indicator == "exposed-bars" {
+			reason = &seen.Damage.Reasons[i]
+		}
+	}
+	if reason == nil || reason.Class != 4 || seen.Damage.Class != 4 {
+		t.Errorf("bottom layer seen exposed: class %d, exposed-bars reason %+v; want class 4 (4 of 6 bars > 50 %%)", seen.Damage.Class, reason)
+	} else if !strings.Contains(reason.Detail, "4 of 6") || !strings.Contains(reason.Detail, "on site") {
+		t.Errorf("reason detail %q does not say 4 of 6 bars, seen on site", reason.Detail)
+	}
+	n := 0
+	for _, b := range seen.Rebar {
+		if b.ExposedOnSite != (b.Face == "bottom") {
+			t.Errorf("%s (%s): exposed_on_site = %v", b.Label, b.Face, b.ExposedOnSite)
+		}
+		if b.ExposedOnSite {
+			n++
+		}
+	}
+	if n != 4 {
+		t.Errorf("%d bars flagged exposed on site, want the 4 bottom bars", n)
+	}
+	bond := false
+	for _, c := range seen.Cautions {
+		bond = bond || (strings.Contains(c, "bond") && strings.Contains(c, "on site"))
+	}
+	if !bond {
+		t.Errorf("no bond caution for bars seen exposed on site: %q", seen.Cautions)
+	}
+	if a, b := mustJSON(t, seen.Capacity), mustJSON(t, plain.Capacity); a != b {
+		t.Errorf("exposed_bars changed the capacities: %s vs %s", a, b)
+	}
+	js, err := json.Marshal(seen.Rebar[0])
+	if err != nil || !strings.Contains(string(js), `"exposed_on_site":true`) {
+		t.Errorf("rebar JSON %s lacks \"exposed_on_site\":true (%v)", js, err)
+	}
+	if js, _ := json.Marshal(plain.Rebar[0]); strings.Contains(string(js), "exposed_on_site") {
+		t.Errorf("rebar JSON %s carries exposed_on_site although none was reported", js)
+	}
+}
+
+// TestExposedBarsValidation: a layer can only be seen exposed where an
+// exposed face could have spalled to it; the message names the field and
+// what is accepted.
+func TestExposedBarsValidation(t *testing.T) {
+	slab := `{
+  "member": {"kind": "slab", "depth_mm": 200, "concrete": {"fck_mpa": 30},
+    "layers": [{"face": "bottom", "cover_mm": 20, "spacing_mm": 150, "dia_mm": 10, "fyk_mpa": 500},
+               {"face": "top", "cover_mm": 20, "spacing_mm": 150, "dia_mm": 10, "fyk_mpa": 500}],
+    "exposed": ["bottom"]},
+  "fire": {"curve": "iso834", "duration_min": 60},
+  "evidence": {"exposed_bars": [false, true]}
+}`
+	probs := problemsOf(t, []byte(slab))
+	if len(probs) != 1 || probs[0].Field != "evidence.exposed_bars[1]" || !strings.Contains(probs[0].Message, "accepted") {
+		t.Errorf("top layer of a slab exposed below only: %v, want one problem at evidence.exposed_bars[1] with the accepted values", probs)
+	}
+	if p := problemsOf(t, mutate(t, slab, "evidence.exposed_bars", []any{true, false})); len(p) != 0 {
+		t.Errorf("bottom layer of a slab exposed below rejected: %v", p)
+	}
+	if p := problemsOf(t, mutate(t, slab, "evidence.exposed_bars", []any{"yes", false})); len(p) == 0 || p[0].Field != "evidence.exposed_bars[0]" {
+		t.Errorf("a string in exposed_bars: %v, want a problem at evidence.exposed_bars[0]", p)
+	}
+}
+
+func mustJSON(t *testing.T, v any) string {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return string(b)
+}
+
+// TestSpalledCoverExposesBars: a bar is exposed when the spalled depth reaches
+// its cover over the bar's width (TR68 "exposed reinforcement", research/
+// residual.md §4.1; the geometry of the input by definition). The flag must
+// not depend on how whole thermal cells represent the spall: with 10 mm
+// cells a 34 mm spall removes only the cells centred within 34 mm (to 30 mm),
+// yet it has cut through a 24 + 10 mm cover; a 36 mm spall removes cells to
+// 40 mm but leaves 4 mm over bars with 30 + 10 mm cover. A spall over part of
+// the soffit (0–100 mm) exposes only the bars it covers.
+func TestSpalledCoverExposesBars(t *testing.T) {
+	beam := func(cover float64, spall MeasuredSpall) Input {
+		return Input{Member: Member{Kind: KindBeam, WidthMM: 300, DepthMM: 600, LinkDiaMM: 10,
+			Concrete: Concrete{FckMPa: 30},
+			Layers:   []Layer{{Face: "bottom", CoverMM: cover, Count: 4, DiaMM: 20, FykMPa: 500}, {Face: "top", CoverMM: 30, Count: 2, DiaMM: 12, FykMPa: 500}},
+			Exposed:  []string{"bottom", "left", "right"}},
+			Fire:     &Fire{Curve: CurveISO834, DurationMin: 30},
+			Evidence: &Evidence{Spalling: []MeasuredSpall{spall}},
+			Options:  Options{CellMM: 10}}
+	}
+	cases := []struct {
+		name string
+		in   Input
+		want []bool // bottom bars left to right; the top bars are never exposed
+	}{
+		{"34 mm spall, cover 24 + 10", beam(24, MeasuredSpall{Face: "bottom", DepthMM: 34}), []bool{true, true, true, true}},
+		{"30 mm spall, cover 24 + 10", beam(24, MeasuredSpall{Face: "bottom", DepthMM: 30}), []bool{false, false, false, false}},
+		{"36 mm spall, cover 30 + 10", beam(30, MeasuredSpall{Face: "bottom", DepthMM: 36}), []bool{false, false, false, false}},
+		// bar centres at x = 44, 114.7, 185.3, 256 mm (24 + 10 + 10 from the sides), Ø20: only the first lies under 0–100 mm
+		{"34 mm spall over 0–100 mm", beam(24, MeasuredSpall{Face: "bottom", DepthMM: 34, FromMM: 0, ToMM: 100}), []bool{true, false, false, false}},
+		// a side spall reaches the corner bars only: side cover 24 + 10 = 34 mm to bar surface
+		{"35 mm spall of the left side", beam(24, MeasuredSpall{Face: "left", DepthMM: 35}), []bool{true, false, false, false}},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			res := mustRun(t, c.in)
+			for i, b := range res.Rebar {
+				want := i < 4 && c.want[i]
+				if b.ExposedBySpalling != want {
+					t.Errorf("%s (%s, cover %g mm): exposed_by_spalling = %v, want %v", b.Label, b.Face, b.CoverMM, b.ExposedBySpalling, want)
+				}
+			}
+		})
+	}
+}
+
+// TestSlabPartialSpall: a one-way slab strip is solved through its depth at
+// mid-width, so a measured spall over part of its width (0–300 mm of 1000)
+// must not be dropped because it misses mid-width: the capacity per metre of
+// a one-way slab is governed by the strip through the spalled zone (common
+// practice: the weakest strip of a one-way slab carries its own share of
+// the load). The residual capacity must equal that of the same spall over the
+// whole width (same model, so to 1e-9 relative), the 25 mm spall must expose
+// the bars under 20 mm cover, and a warning must say what was assumed.
+func TestSlabPartialSpall(t *testing.T) {
+	slab := func(from, to float64) Input {
+		return Input{Member: Member{Kind: KindSlab, DepthMM: 200, Concrete: Concrete{FckMPa: 30},
+			Layers:  []Layer{{Face: "bottom", CoverMM: 20, SpacingMM: 150, DiaMM: 12, FykMPa: 500}},
+			Exposed: []string{"bottom"}},
+			Fire:     &Fire{Curve: CurveISO834, DurationMin: 60},
+			Evidence: &Evidence{Spalling: []MeasuredSpall{{Face: "bottom", DepthMM: 25, FromMM: from, ToMM: to}}},
+			Demand:   Demand{SaggingKNm: 20}}
+	}
+	part, whole := mustRun(t, slab(0, 300)), mustRun(t, slab(0, 0))
+	plain := slab(0, 0)
+	plain.Evidence = nil
+	none := mustRun(t, plain)
+	if whole.Capacity.Sagging.ResidualKNm >= none.Capacity.Sagging.ResidualKNm {
+		t.Fatalf("a 25 mm soffit spall does not lower the residual capacity (%g vs %g kN·m/m): the test could not fail",
+			whole.Capacity.Sagging.ResidualKNm, none.Capacity.Sagging.ResidualKNm)
+	}
+	p, w := part.Capacity.Sagging.ResidualKNm, whole.Capacity.Sagging.ResidualKNm
+	if math.Abs(p-w) > 1e-9*w {
+		t.Errorf("partial-width spall: residual %g kN·m/m, want that of the spalled strip %g", p, w)
+	}
+	if !part.Rebar[0].ExposedBySpalling {
+		t.Error("25 mm spall over 20 mm cover: bars not flagged exposed")
+	}
+	found := false
+	for _, s := range part.Warnings {
+		found = found || strings.Contains(s, "evidence.spalling[0]")
+	}
+	if !found {
+		t.Errorf("no warning about the partial-width slab spall: %q", part.Warnings)
 	}
 }

@@ -63,8 +63,11 @@ func (rn *runner) judgement(res *Result, field *thermal.Field) {
 			n = b.BarsPerMetre
 		}
 		j.barsTotal += n
-		if b.ExposedBySpalling {
+		if b.ExposedBySpalling || b.ExposedOnSite {
 			j.barsExposed += n
+		}
+		if b.ExposedOnSite {
+			j.barsSeen += n
 		}
 		if e := b.PeakC - b.ThresholdC; e > worst {
 			worst = e
@@ -73,11 +76,14 @@ func (rn *runner) judgement(res *Result, field *thermal.Field) {
 	}
 	if rn.g.slab {
 		// slab layers: count layers, not bars per metre
-		j.barsTotal, j.barsExposed = 0, 0
+		j.barsTotal, j.barsExposed, j.barsSeen = 0, 0, 0
 		for i := range res.Rebar {
 			j.barsTotal++
-			if res.Rebar[i].ExposedBySpalling {
+			if res.Rebar[i].ExposedBySpalling || res.Rebar[i].ExposedOnSite {
 				j.barsExposed++
+			}
+			if res.Rebar[i].ExposedOnSite {
+				j.barsSeen++
 			}
 		}
 	}
@@ -127,7 +133,11 @@ func (rn *runner) cautions(res *Result, j judgeInput) []string {
 	if in.Member.Concrete.FckMPa > 55 {
 		add("High-strength concrete (f_ck > 55 MPa): the normal-strength residual curves are used; high-strength concrete can lose more strength below 450 °C and is prone to explosive spalling (research/residual.md §1.0).")
 	}
-	if j.barsExposed > 0 {
+	switch {
+	case j.barsSeen > 0:
+		add("Bars seen exposed on site or reached by the spalled surface have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (research/residual.md §5.1).")
+		add("Bars reported exposed on site (evidence.exposed_bars) keep the temperature computed with their cover in place unless measured spalling reaches them; a bar exposed during the fire may have come close to the gas temperature (research/residual.md §3.2): take bar coupons.")
+	case j.barsExposed > 0:
 		add("Bars exposed by spalling have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (research/residual.md §5.1).")
 	}
 	hasPrestress := false
@@ -138,6 +148,9 @@ func (rn *runner) cautions(res *Result, j judgeInput) []string {
 	}
 	if hasPrestress {
 		add("Prestressing steel loses strength permanently above about 300 °C and prestress by relaxation during the fire; the residual prestress is taken in proportion to the residual strength factor (an assumption). Test the tendons.")
+		if rn.tendonAreaDefaulted() {
+			add("Tendon areas without area_mm2 are taken as π·d²/4 of the nominal diameter, right for a wire; a seven-wire strand has about 0.75 of that (EN 10138-3, e.g. 93 mm² for 12.5 mm strand), so give area_mm2 for strands or the capacity is overestimated.")
+		}
 	}
 	for _, b := range res.Rebar {
 		if b.PeakC > 723 {
@@ -155,6 +168,22 @@ func (rn *runner) cautions(res *Result, j judgeInput) []string {
 		add("Note: " + w + ".")
 	}
 	return out
+}
+
+// tendonAreaDefaulted reports whether some prestressing steel has no nominal area given.
+func (rn *runner) tendonAreaDefaulted() bool {
+	m := &rn.in.Member
+	for _, l := range m.Layers {
+		if l.Steel == SteelPrestressing && l.AreaMM2 == 0 {
+			return true
+		}
+	}
+	for _, b := range m.Bars {
+		if b.Steel == SteelPrestressing && b.AreaMM2 == 0 {
+			return true
+		}
+	}
+	return false
 }
 
 // methods lists every model used, with its version and source.

@@ -98,6 +98,9 @@ type RebarResult struct {
 	ResidualFyMPa  float64 `json:"residual_fy_mpa"`
 	// ExposedBySpalling: the spalled surface reached the bar (bond lost).
 	ExposedBySpalling bool `json:"exposed_by_spalling"`
+	// ExposedOnSite: the assessor saw bars of this bar's layer exposed
+	// (evidence.exposed_bars); omitted when false.
+	ExposedOnSite bool `json:"exposed_on_site,omitempty"`
 	// History is the bar-centre temperature, [min, °C].
 	History [][2]float64 `json:"history"`
 }

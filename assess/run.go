@@ -13,7 +13,7 @@ import (
 // MethodVersion identifies the assessment method (the workflow, the residual
 // models, the damage-class scheme and their constants). It changes whenever a
 // change could alter a result.
-const MethodVersion = "residuum-assess/1.0.0"
+const MethodVersion = "residuum-assess/1.1.0"
 
 // RunOptions control a run; nil means no progress reports.
 type RunOptions struct {
@@ -33,6 +33,9 @@ type runner struct {
 	prog   func(stage string, frac float64)
 	warn   []string
 	solves int
+	// fitProg, while a fit runs, turns its thermal solutions' progress into
+	// the run's (nil otherwise).
+	fitProg *fitProgress
 }
 
 // Run assesses one member: the peak temperature field (forward from the fire
@@ -65,6 +68,7 @@ func Run(ctx context.Context, in Input, opt *RunOptions) (*Result, error) {
 	}
 	res := &Result{MethodVersion: MethodVersion, InputSHA256: InputSHA256(in)}
 	rn.roundingWarning()
+	rn.slabSpallWarning()
 
 	// Stage 1–2: the peak temperature field.
 	var field *thermal.Field
@@ -172,7 +176,13 @@ func (rn *runner) measuredSpalls() []thermal.Spall {
 	var out []thermal.Spall
 	for _, s := range rn.in.Evidence.Spalling {
 		sp := thermal.Spall{Face: thermal.Face(s.Face), DepthMM: s.DepthMM, FromMM: s.FromMM, ToMM: s.ToMM}
-		if (s.Face == "bottom" || s.Face == "top") && !(s.FromMM == 0 && s.ToMM == 0) {
+		switch {
+		case rn.g.slab:
+			// The slab strip is solved through its depth at mid-width: a spall
+			// over part of the width is taken over the whole strip, so the
+			// capacity per metre is that of the spalled zone (slabSpallWarning).
+			sp.FromMM, sp.ToMM = 0, 0
+		case (s.Face == "bottom" || s.Face == "top") && !(s.FromMM == 0 && s.ToMM == 0):
 			sp.FromMM = math.Max(0, s.FromMM+rn.g.dx)
 			sp.ToMM = math.Min(rn.g.widthMM, s.ToMM+rn.g.dx)
 		}
@@ -636,6 +646,9 @@ func (rn *runner) thermalOutputs(res *Result, field *thermal.Field, exp thermal.
 			r.History = history(p.TimesMin, p.TempsC, 300)
 			r.ExposedBySpalling = rn.barExposed(field, i)
 		}
+		if ev := rn.in.Evidence; ev != nil && b.Layer >= 0 && b.Layer < len(ev.ExposedBars) {
+			r.ExposedOnSite = ev.ExposedBars[b.Layer]
+		}
 		r.AboveThreshold = r.PeakC > r.ThresholdC
 		r.ResidualFactor = ResidualSteelFactor(rn.in.Options.SteelModel, b.Steel, r.PeakC)
 		r.ResidualFyMPa = r.ResidualFactor * b.FykMPa
@@ -712,37 +725,36 @@ func (rn *runner) profile(field *thermal.Field, face string) [][2]float64 {
 	return out
 }
 
-// barExposed reports whether spalling reached bar i: the cell holding the
-// point of the bar's surface toward some face was removed.
+// barExposed reports whether spalling reached bar i: some measured spall, or
+// a progressive spall at the depth it had reached by the end of the run, cut
+// at least the bar's cover toward its face, over part of the bar's width. It
+// uses the nominal geometry, so the flag does not depend on how whole cells
+// represent the spall (a cell is removed only when its centre is within the
+// spalled depth).
 func (rn *runner) barExposed(field *thermal.Field, i int) bool {
-	g := rn.g
+	m := &rn.in.Member
 	b := rn.bars[i]
-	bp := b
-	bp.XMM, bp.YMM = rn.barPos[i].XMM, rn.barPos[i].YMM
-	faces := []string{"bottom", "top"}
-	if !g.slab {
-		faces = append(faces, "left", "right")
+	r := b.DiaMM / 2
+	cuts := func(face string, depth, from, to float64) bool {
+		cover, along, ok := m.coverToward(b, face)
+		if !ok || depth < cover-1e-9 {
+			return false
+		}
+		return (from == 0 && to == 0) || rn.g.slab || (from < along+r && to > along-r)
 	}
-	for _, f := range faces {
-		x, y := barSurfaceToward(bp, f)
-		// step a hair outward so a surface exactly on a cell edge counts the outer cell
-		switch f {
-		case "bottom":
-			y -= 1e-6
-		case "top":
-			y += 1e-6
-		case "left":
-			x -= 1e-6
-		case "right":
-			x += 1e-6
+	if ev := rn.in.Evidence; ev != nil {
+		for _, s := range ev.Spalling {
+			if cuts(s.Face, s.DepthMM, s.FromMM, s.ToMM) {
+				return true
+			}
 		}
-		ii := 0
-		if !g.slab {
-			ii = int(math.Floor(x / g.cell))
-		}
-		jj := int(math.Floor(y / g.cell))
-		if g.inOutline(ii, jj) && removedCell(field, jj*g.nx+ii) {
-			return true
+	}
+	if f := rn.in.Fire; f != nil && field != nil {
+		for _, s := range f.Spalling {
+			d := math.Min(s.MaxDepthMM, s.RateMMPerMin*math.Max(0, field.EndMin-s.StartMin))
+			if d > 0 && cuts(s.Face, d, 0, 0) {
+				return true
+			}
 		}
 	}
 	return false
@@ -757,6 +769,22 @@ func fittedFireName(in *Input, fr *FitResult) string {
 	}
 	return fmt.Sprintf("ISO 834 standard fire for a fitted %.1f min (range %.1f–%.1f), then cooling at the EN 1991-1-2 Annex A rate",
 		*fr.DurationMin, fr.Range[0], fr.Range[1])
+}
+
+// slabSpallWarning notes measured slab spalls over part of the width, which
+// the 1-D strip takes over its whole width (the strip through the spalled
+// zone governs the capacity per metre of a one-way slab).
+func (rn *runner) slabSpallWarning() {
+	if !rn.g.slab || rn.in.Evidence == nil {
+		return
+	}
+	for i, s := range rn.in.Evidence.Spalling {
+		if s.FromMM == 0 && s.ToMM == 0 {
+			continue
+		}
+		rn.warn = append(rn.warn, fmt.Sprintf("evidence.spalling[%d] covers %s–%s mm of the slab width: the strip is analysed through the spalled zone, as if the %s mm spall ran over the whole width (per metre, the capacity of the spalled zone)",
+			i, fmtNum(s.FromMM), fmtNum(s.ToMM), fmtNum(s.DepthMM)))
+	}
 }
 
 // roundingWarning notes dimensions that the whole-cell grid changes.

@@ -78,18 +78,25 @@ func (r *Result) WriteText(w io.Writer) error {
 			}
 		}
 		h := r.Rebar[hot]
-		exposed := 0
+		exposed, seen := 0, 0
 		above := 0
 		for _, bar := range r.Rebar {
 			if bar.ExposedBySpalling {
 				exposed++
 			}
+			if bar.ExposedOnSite {
+				seen++
+			}
 			if bar.AboveThreshold {
 				above++
 			}
 		}
-		p("Bars: %d; hottest %s %.0f °C peak (%.0f °C at end of heating), %s threshold %.0f °C; %d above threshold, %d exposed by spalling\n",
-			len(r.Rebar), h.Label, h.PeakC, h.EndOfHeatingC, h.Steel, h.ThresholdC, above, exposed)
+		onSite := ""
+		if seen > 0 {
+			onSite = fmt.Sprintf(", %d seen exposed on site", seen)
+		}
+		p("Bars: %d; hottest %s %.0f °C peak (%.0f °C at end of heating), %s threshold %.0f °C; %d above threshold, %d exposed by spalling%s\n",
+			len(r.Rebar), h.Label, h.PeakC, h.EndOfHeatingC, h.Steel, h.ThresholdC, above, exposed, onSite)
 	}
 	p("Capacity (%s)          undamaged  residual  ratio   design: undamaged residual  demand  utilisation\n", unit)
 	for _, d := range []struct {

@@ -248,6 +248,7 @@ func (in *Input) Normalize() {
 			}
 		}
 		e.Spalling = slices.Clone(e.Spalling)
+		e.ExposedBars = slices.Clone(e.ExposedBars)
 		in.Evidence = &e
 	}
 	o := &in.Options
@@ -353,9 +354,13 @@ func (in *Input) check() error {
 	if (in.Fire != nil || in.Evidence != nil) && len(m.Exposed) == 0 {
 		c.add("member.exposed", "no exposed face although a fire or evidence is given (accepted: one or more of %s)", strings.Join(m.faces(), ", "))
 	}
-	c.rng("demand.sagging_knm", in.Demand.SaggingKNm, 0, 100000, "kN·m")
-	c.rng("demand.hogging_knm", in.Demand.HoggingKNm, 0, 100000, "kN·m")
-	c.rng("demand.axial_kn", in.Demand.AxialKN, -100000, 100000, "kN (compression positive)")
+	perM := ""
+	if m.Kind == KindSlab {
+		perM = " per metre width"
+	}
+	c.rng("demand.sagging_knm", in.Demand.SaggingKNm, 0, 100000, "kN·m"+perM)
+	c.rng("demand.hogging_knm", in.Demand.HoggingKNm, 0, 100000, "kN·m"+perM)
+	c.rng("demand.axial_kn", in.Demand.AxialKN, -100000, 100000, "kN"+perM+" (compression positive)")
 	in.checkOptions(c, geomOK)
 	return c.p.Err()
 }
@@ -430,6 +435,9 @@ func (in *Input) checkMember(c checker) bool {
 		dOK := c.rng(p+".dia_mm", l.DiaMM, 4, 50, "mm")
 		steelOK := c.checkSteel(p, l.Steel, l.FykMPa, l.PrestressMPa)
 		_ = steelOK
+		if dOK {
+			c.checkArea(p, l.AreaMM2, l.DiaMM)
+		}
 		covOK := c.rng(p+".cover_mm", l.CoverMM, 5, 200, "mm")
 		if covOK && dOK && ok {
 			hiCover := m.DepthMM/2 - m.LinkDiaMM - l.DiaMM
@@ -476,6 +484,9 @@ func (in *Input) checkMember(c checker) bool {
 		p := fmt.Sprintf("member.bars[%d]", i)
 		dOK := c.rng(p+".dia_mm", b.DiaMM, 4, 50, "mm")
 		c.checkSteel(p, b.Steel, b.FykMPa, b.PrestressMPa)
+		if dOK {
+			c.checkArea(p, b.AreaMM2, b.DiaMM)
+		}
 		xOK := c.rng(p+".x_mm", b.XMM, 0, math.Max(m.boxWidth(), 0), "mm")
 		yOK := c.rng(p+".y_mm", b.YMM, 0, math.Max(m.DepthMM, 0), "mm")
 		if ok && dOK && xOK && yOK && !m.inside(b.XMM, b.YMM, b.DiaMM/2) {
@@ -502,6 +513,13 @@ func tNote(m *Member) string {
 		return " of the flange"
 	}
 	return ""
+}
+
+// checkArea checks a nominal area against the circle of the nominal
+// diameter: a strand fills about 0.75 of it (EN 10138-3), a bar or wire all of it.
+func (c checker) checkArea(p string, area, dia float64) {
+	circle := math.Pi * dia * dia / 4
+	c.rngOrZero(p+".area_mm2", area, 0.6*circle, 1.05*circle, "mm² (0.6–1.05·π·dia²/4 for a "+fmtNum(dia)+" mm bar or strand)", "π·dia²/4")
 }
 
 // checkSteel checks a bar's class, strength and prestress.
@@ -664,8 +682,52 @@ func (in *Input) checkEvidence(c checker, exposed map[string]bool, geomOK bool) 
 			}
 		}
 	}
+	in.checkExposedBars(c, exposed)
 	if len([]rune(e.Notes)) > 4000 {
 		c.add("evidence.notes", "has %d characters (accepted: at most 4000)", len([]rune(e.Notes)))
+	}
+}
+
+// checkExposedBars checks evidence.exposed_bars: one entry per layer, and a
+// layer marked exposed must lie where an exposed face could have spalled to it.
+func (in *Input) checkExposedBars(c checker, exposed map[string]bool) {
+	e := in.Evidence
+	m := &in.Member
+	if len(e.ExposedBars) == 0 {
+		return
+	}
+	if len(e.ExposedBars) != len(m.Layers) {
+		c.add("evidence.exposed_bars", "has %d entries for %d layers (accepted: absent, or one true/false per member.layers entry, in the same order)", len(e.ExposedBars), len(m.Layers))
+		return
+	}
+	for i, seen := range e.ExposedBars {
+		if !seen {
+			continue
+		}
+		faces := m.layerReachedFrom(m.Layers[i].Face)
+		reached := false
+		for _, f := range faces {
+			reached = reached || exposed[f]
+		}
+		if !reached {
+			c.add(fmt.Sprintf("evidence.exposed_bars[%d]", i), "layer %d (%s) can only be exposed through the %s face, which is not in member.exposed (accepted: false, or expose one of those faces)",
+				i+1, m.Layers[i].Face, strings.Join(faces, " or "))
+		}
+	}
+}
+
+// layerReachedFrom lists the faces from which spalling can reach the bars of
+// a layer on the given face: a slab's own face; a beam's own face or its web
+// sides; a T-beam's top layer (in the flange) from the top or the flange
+// soffit ("bottom").
+func (m *Member) layerReachedFrom(face string) []string {
+	switch {
+	case m.Kind == KindSlab:
+		return []string{face}
+	case m.isT() && face == "top":
+		return []string{"top", "bottom"}
+	default:
+		return []string{face, "left", "right"}
 	}
 }
 

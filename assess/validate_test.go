@@ -195,6 +195,9 @@ func TestValidateRanges(t *testing.T) {
 		{baseBeam, "options.gamma_c", 0.5, ""},
 		{baseBeam, "options.gamma_s", 2, ""},
 		{baseBeam, "options.alpha_cc", 0.5, ""},
+		{baseBeam, "evidence.exposed_bars", []any{true, false}, ""}, // two entries for one layer
+		{baseBeam, "member.layers[0].area_mm2", 100, ""},            // 0.32 of the 20 mm circle
+		{baseBeam, "member.bars[0].area_mm2", 300, ""},              // more than the 16 mm circle
 		{baseBeam, "options.fit", map[string]any{"family": "zone"}, "options.fit.family"},
 		{baseBeam, "options.fit", map[string]any{"family": "parametric", "b_j_m2s05k": 1000}, "options.fit.opening_factor_m05"},
 		{baseBeam, "options.fit", map[string]any{"family": "standard", "opening_factor_m05": 0.04}, "options.fit.opening_factor_m05"},
@@ -380,4 +383,25 @@ func FuzzDecode(f *testing.F) {
 		}
 		_ = bytes.MinRead
 	})
+}
+
+// TestSlabDemandUnits: a slab's demand is per metre width (DESIGN.md §4:
+// moments in kN·m per metre width for slabs); the range message must say so,
+// and a beam's must not.
+func TestSlabDemandUnits(t *testing.T) {
+	for _, c := range []struct {
+		base, path string
+		perMetre   bool
+	}{
+		{baseSlab, "demand.sagging_knm", true}, {baseSlab, "demand.axial_kn", true},
+		{baseBeam, "demand.sagging_knm", false}, {baseBeam, "demand.axial_kn", false},
+	} {
+		probs := problemsOf(t, mutate(t, c.base, c.path, 3e5))
+		if len(probs) != 1 || probs[0].Field != c.path {
+			t.Fatalf("%s out of range: %v, want one problem", c.path, probs)
+		}
+		if got := strings.Contains(probs[0].Message, "per metre width"); got != c.perMetre {
+			t.Errorf("%s: message %q, per metre width stated = %v, want %v", c.path, probs[0].Message, got, c.perMetre)
+		}
+	}
 }

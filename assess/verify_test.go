@@ -3,6 +3,7 @@ package assess
 import (
 	"context"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -199,5 +200,76 @@ func TestIsotherm500Method(t *testing.T) {
 	}
 	if res.Capacity.Hogging.Ratio >= 1 {
 		t.Errorf("hogging ratio %.3f: the heated compression zone must lose capacity", res.Capacity.Hogging.Ratio)
+	}
+}
+
+// TestSlabPerMetreHandCalculation: slab moments are per metre width whatever
+// the analysed width (DESIGN.md §4). A 200 mm C30 slab with Ø12 at 150 mm,
+// 25 mm cover, f_yk = 500 MPa: A_s = 1000/150·π·6² = 754.0 mm²/m,
+// d = 200 − 25 − 6 = 169 mm; EN 1992-1-1 §3.1.7(3) block (λ = 0.8, η = 1):
+// x = 15.7 mm, M_Rk = 61.3 kN·m/m. Tolerance 1 % as in
+// TestUndamagedHandCalculation (block against parabola–rectangle). Analysed
+// widths of 1000 and 600 mm must agree with each other to 1e-6 relative (the
+// same per-metre section), and a sagging demand of 30 kN·m/m must give the
+// utilisation 30/M_Rd,res.
+func TestSlabPerMetreHandCalculation(t *testing.T) {
+	slab := func(width float64) Input {
+		return Input{Member: Member{Kind: KindSlab, WidthMM: width, DepthMM: 200, Concrete: Concrete{FckMPa: 30},
+			Layers: []Layer{{Face: "bottom", CoverMM: 25, SpacingMM: 150, DiaMM: 12, FykMPa: 500}}},
+			Demand: Demand{SaggingKNm: 30}}
+	}
+	as := 1000.0 / 150 * math.Pi * 36
+	mk, x := rectBlock(as, 500, 1000, 169, 30)
+	if eps := 0.0035 * (169 - x) / x; eps < 500.0/200000 {
+		t.Fatalf("hand calculation assumption broken: ε_s = %g", eps)
+	}
+	a, b := mustRun(t, slab(1000)).Capacity.Sagging, mustRun(t, slab(600)).Capacity.Sagging
+	t.Logf("hand M_Rk = %.2f kN·m/m (x = %.1f mm); fibre model %.2f (1000 mm strip), %.2f (600 mm strip)", mk, x, a.UndamagedKNm, b.UndamagedKNm)
+	if math.Abs(a.UndamagedKNm-mk) > 0.01*mk {
+		t.Errorf("slab M_Rk %.2f kN·m/m, hand calculation %.2f (tolerance 1 %%)", a.UndamagedKNm, mk)
+	}
+	if math.Abs(a.UndamagedKNm-b.UndamagedKNm) > 1e-6*mk {
+		t.Errorf("per-metre capacity depends on the analysed width: %.6f (1000 mm) vs %.6f (600 mm)", a.UndamagedKNm, b.UndamagedKNm)
+	}
+	if a.Utilisation == nil || math.Abs(*a.Utilisation-30/a.ResidualDesignKNm) > 1e-12 {
+		t.Errorf("utilisation %v, want 30/%g", a.Utilisation, a.ResidualDesignKNm)
+	}
+}
+
+// TestStrandArea: a seven-wire strand's nominal area is not the circle of its
+// nominal diameter: EN 10138-3 gives 93 mm² for the 12.5 mm strand (from
+// memory; the circle is 122.7 mm²). With area_mm2 given the tendon fibre
+// carries exactly that area (exact: a copied input value), the sagging
+// capacity of the prestressed example beam falls (fewer tendons' worth of
+// steel), and the caution about defaulted tendon areas goes away.
+func TestStrandArea(t *testing.T) {
+	in := rectBeam(
+		Layer{Face: "bottom", CoverMM: 40, Count: 4, DiaMM: 12.5, Steel: SteelPrestressing, FykMPa: 1640, PrestressMPa: 1000},
+		Layer{Face: "top", CoverMM: 30, Count: 2, DiaMM: 12, Steel: SteelHotRolled, FykMPa: 500})
+	in.Member.Concrete.FckMPa = 45
+	in.Options.CellMM = 20
+	circle := mustRun(t, in)
+	in.Member.Layers[0].AreaMM2 = 93
+	strand := mustRun(t, in)
+	caution := func(r *Result) bool {
+		for _, c := range r.Cautions {
+			if strings.Contains(c, "area_mm2") {
+				return true
+			}
+		}
+		return false
+	}
+	if !caution(circle) || caution(strand) {
+		t.Errorf("tendon-area caution: %v without area_mm2 (want true), %v with it (want false)", caution(circle), caution(strand))
+	}
+	for i := 0; i < 4; i++ {
+		if strand.Rebar[i].AreaMM2 != 93 || math.Abs(circle.Rebar[i].AreaMM2-math.Pi*12.5*12.5/4) > 1e-9 {
+			t.Errorf("tendon %d area %g / %g mm², want 93 / %.1f", i, strand.Rebar[i].AreaMM2, circle.Rebar[i].AreaMM2, math.Pi*12.5*12.5/4)
+		}
+	}
+	// Under-reinforced: the capacity follows the steel force, so the 24 % less
+	// area must cost clearly more than 10 % of the moment.
+	if s, c := strand.Capacity.Sagging.UndamagedKNm, circle.Capacity.Sagging.UndamagedKNm; !(s < 0.9*c) {
+		t.Errorf("undamaged sagging %g kN·m with 93 mm² strands, %g with the 122.7 mm² circle: want < 0.9×", s, c)
 	}
 }

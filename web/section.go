@@ -62,8 +62,7 @@ func (g sectionGeom) webHeight() float64 {
 // maxDrawnBars bounds the bars drawn for one layer or list.
 const maxDrawnBars = 200
 
-// geomFromInput places the bars of a member as the engine does (assess/geometry.go: layers spread
-// evenly between side covers, centres at cover + link + ½ diameter; slab layers at their spacing)
+// geomFromInput places the bars of a member by the engine's own layout rule (assess.Member.BarPositions)
 // and collects what else the drawing shows. It never fails: parts that cannot be drawn are listed
 // in Problems.
 func geomFromInput(in assess.Input) sectionGeom {
@@ -93,57 +92,47 @@ func geomFromInput(in assess.Input) sectionGeom {
 			g.Exposed["left"], g.Exposed["right"] = true, true
 		}
 	}
-	w0, w1 := g.web()
+	// The member as drawn (defaults applied, an impossible flange dropped), laid out by the engine.
+	drawn := m
+	drawn.Kind = assess.KindBeam
+	if g.Slab {
+		drawn.Kind = assess.KindSlab
+	}
+	drawn.WidthMM, drawn.FlangeWidthMM, drawn.FlangeDepthMM, drawn.LinkDiaMM = g.W, g.FW, g.FD, g.LinkDia
+	pos := drawn.BarPositions()
+	byLayer := map[int][]assess.BarPosition{}
+	for _, p := range pos {
+		if p.Layer >= 0 {
+			byLayer[p.Layer] = append(byLayer[p.Layer], p)
+		}
+	}
 	for li, l := range m.Layers {
-		if !(l.DiaMM > 0) || l.CoverMM < 0 {
+		if !(l.DiaMM > 0) || !(l.CoverMM >= 0) {
 			g.Problems = append(g.Problems, fmt.Sprintf("layer %d needs a cover and a bar diameter", li+1))
 			continue
 		}
-		in := l.CoverMM + g.LinkDia + l.DiaMM/2
-		y := in
-		if l.Face == "top" {
-			y = g.D - in
+		if g.Slab && !(l.SpacingMM >= 10) {
+			g.Problems = append(g.Problems, fmt.Sprintf("layer %d needs a bar spacing of at least 10 mm", li+1))
+			continue
 		}
-		var xs []float64
-		if g.Slab {
-			if !(l.SpacingMM >= 10) {
-				g.Problems = append(g.Problems, fmt.Sprintf("layer %d needs a bar spacing of at least 10 mm", li+1))
-				continue
-			}
-			for x := l.SpacingMM / 2; x < g.W && len(xs) < maxDrawnBars; x += l.SpacingMM {
-				xs = append(xs, x)
-			}
-		} else {
-			n := min(l.Count, maxDrawnBars)
-			if n <= 0 {
-				g.Problems = append(g.Problems, fmt.Sprintf("layer %d needs a number of bars", li+1))
-				continue
-			}
-			x0, x1 := w0+in, w1-in
-			if l.Face == "top" && g.isT() {
-				x0, x1 = in, g.boxW()-in
-			}
-			for i := 0; i < n; i++ {
-				x := (x0 + x1) / 2
-				if n > 1 {
-					x = x0 + (x1-x0)*float64(i)/float64(n-1)
-				}
-				xs = append(xs, x)
-			}
+		if !g.Slab && l.Count <= 0 {
+			g.Problems = append(g.Problems, fmt.Sprintf("layer %d needs a number of bars", li+1))
+			continue
 		}
-		for _, x := range xs {
-			g.Bars = append(g.Bars, barGeom{x, y, l.DiaMM})
+		ps := byLayer[li]
+		if len(ps) > maxDrawnBars {
+			ps = ps[:maxDrawnBars]
 		}
-		if len(xs) > 0 {
-			g.Covers = append(g.Covers, coverDim{Face: l.Face, X: xs[0], Y: y, Dia: l.DiaMM, Cover: l.CoverMM + g.LinkDia})
+		for _, p := range ps {
+			g.Bars = append(g.Bars, barGeom{p.XMM, p.YMM, p.DiaMM})
+		}
+		if len(ps) > 0 {
+			g.Covers = append(g.Covers, coverDim{Face: l.Face, X: ps[0].XMM, Y: ps[0].YMM, Dia: ps[0].DiaMM, Cover: ps[0].CoverMM})
 		}
 	}
-	for i, b := range m.Bars {
-		if i >= maxDrawnBars {
-			break
-		}
-		if b.DiaMM > 0 {
-			g.Bars = append(g.Bars, barGeom{b.XMM, b.YMM, b.DiaMM})
+	for _, p := range pos {
+		if p.Layer < 0 && p.Index < maxDrawnBars {
+			g.Bars = append(g.Bars, barGeom{p.XMM, p.YMM, p.DiaMM})
 		}
 	}
 	if ev := in.Evidence; ev != nil {
