@@ -78,8 +78,9 @@ type Member struct {
 	LinkDiaMM float64 `json:"link_dia_mm"`
 	Bars      []Bar   `json:"bars,omitempty"`
 	// Exposed lists the faces the fire reached: "bottom", "left", "right",
-	// "top" (a slab: "bottom" and/or "top"). Default: beam bottom+left+right, slab bottom.
-	Exposed []string `json:"exposed,omitempty"`
+	// "top" (a slab: "bottom" and/or "top"). Missing or null: beam
+	// bottom+left+right, slab bottom; an empty list: no face was exposed.
+	Exposed []string `json:"exposed"`
 }
 
 // Concrete is the member's concrete.
