@@ -6,7 +6,7 @@ import (
 )
 
 // DamageScheme names the damage-class scheme used by Judge.
-const DamageScheme = "Five visual damage classes 0–4 of the Concrete Society TR68 (2008) lineage (TR15, TR33; fib Bulletin 46), criteria for beams and floors from memory (research/residual.md §4.1 [M]), quantified by Residuum"
+const DamageScheme = "Five visual damage classes 0–4 of the Concrete Society TR68 (2008) lineage (TR15, TR33; fib Bulletin 46), criteria for beams and floors from memory (unconfirmed), quantified by Residuum"
 
 // damageLabels are the class names (repair category tied to each class,
 // research/residual.md §4.1 [M]).
@@ -19,10 +19,10 @@ var damageLabels = [5]string{
 }
 
 const (
-	srcTR68   = "Concrete Society TR68 (2008) damage classes, beam/floor table, from memory (research/residual.md §4.1 [M]; unconfirmed)"
-	srcOwn    = "Residuum's own engineering judgement (no published threshold confirmed, research/residual.md §9)"
-	srcSteel  = "Permanent-loss thresholds by steel class, research/residual.md §2.2 and §6 (hot-rolled ~600 °C, cold-worked ~450 °C, quenched-and-tempered ~400 °C, prestressing ~300 °C [C])"
-	srcColour = "Colour zones: pink 300–600 °C, whitish grey 600–900 °C (research/residual.md §3.1 [C]); TR68 colour columns (§4.1 [M])"
+	srcTR68   = "Concrete Society TR68 (2008) damage classes, beam/floor table, from memory (unconfirmed)"
+	srcOwn    = "Residuum's own engineering judgement (no published threshold confirmed)"
+	srcSteel  = "Permanent-loss thresholds by steel class after cooling (hot-rolled ~600 °C, cold-worked ~450 °C, quenched-and-tempered ~400 °C, prestressing ~300 °C): older UK guidance as quoted in secondary sources (primary not confirmed); trends in Hertz 2006, Rafi et al. 2021, Hager et al. 2021"
+	srcColour = "Colour zones: pink 300–600 °C, whitish grey 600–900 °C (Bessey 1950; Annerel & Taerwe 2008; Guise 1997); TR68 colour columns from memory"
 )
 
 // judgeInput gathers what the damage class depends on.

@@ -119,26 +119,26 @@ func (rn *runner) cautions(res *Result, j judgeInput) []string {
 	out := append([]string{}, baseCautions...)
 	add := func(s string) { out = append(out, s) }
 	if res.Scenario == "evidence" || res.Scenario == "fire+evidence" {
-		add("Colour-change depths depend on the aggregate and cement and change as the concrete ages after the fire; calibrate them on site (research/residual.md §3.5). The 300 °C reading of the pink onset is itself uncertain by about ±50 °C.")
+		add("Colour-change depths depend on the aggregate and cement and change as the concrete ages after the fire; calibrate them on site (Guise 1997; Annerel & Taerwe 2008). The 300 °C reading of the pink onset is itself uncertain by about ±50 °C.")
 	}
 	if res.Fit != nil && !res.Fit.Matched {
 		add("The evidence could not be matched by any fire of the family searched: " + res.Fit.Message + " The temperatures used are those of the nearest bound and must not be relied on.")
 	}
 	switch in.Member.Concrete.Aggregate {
 	case "calcareous":
-		add("Calcareous aggregate: no residual credit over siliceous concrete is taken above 600 °C (decarbonation and CaO rehydration after cooling can cause further loss, research/residual.md §1.2).")
+		add("Calcareous aggregate: no residual credit over siliceous concrete is taken above 600 °C (decarbonation and CaO rehydration after cooling can cause further loss; Dias 1992).")
 	case "lightweight":
-		add("Lightweight aggregate: the residual factors use the EN 1994-1-2 lightweight hot-strength column recalled from memory (unconfirmed, research/residual.md §1.1 [M?]); colour change is unreliable in kiln-fired aggregate.")
+		add("Lightweight aggregate: the residual factors use the EN 1994-1-2 lightweight hot-strength column recalled from memory (unconfirmed); colour change is unreliable in kiln-fired aggregate.")
 	}
 	if in.Member.Concrete.FckMPa > 55 {
-		add("High-strength concrete (f_ck > 55 MPa): the normal-strength residual curves are used; high-strength concrete can lose more strength below 450 °C and is prone to explosive spalling (research/residual.md §1.0).")
+		add("High-strength concrete (f_ck > 55 MPa): the normal-strength residual curves are used; high-strength concrete can lose more strength below 450 °C and is prone to explosive spalling (Phan & Carino, NIST; EN 1992-1-2 §6.2).")
 	}
 	switch {
 	case j.barsSeen > 0:
-		add("Bars seen exposed on site or reached by the spalled surface have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (research/residual.md §5.1).")
-		add("Bars reported exposed on site (evidence.exposed_bars) keep the temperature computed with their cover in place unless measured spalling reaches them; a bar exposed during the fire may have come close to the gas temperature (research/residual.md §3.2): take bar coupons.")
+		add("Bars seen exposed on site or reached by the spalled surface have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (residual bond after heating: Fire Safety J. 44(6) 2009; Ergün et al. 2016).")
+		add("Bars reported exposed on site (evidence.exposed_bars) keep the temperature computed with their cover in place unless measured spalling reaches them; a bar exposed during the fire may have come close to the gas temperature: take bar coupons.")
 	case j.barsExposed > 0:
-		add("Bars exposed by spalling have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (research/residual.md §5.1).")
+		add("Bars exposed by spalling have lost bond; the flexural analysis assumes perfect bond. Check anchorage and laps with reduced bond and inspect the bars for buckling (residual bond after heating: Fire Safety J. 44(6) 2009; Ergün et al. 2016).")
 	}
 	hasPrestress := false
 	for _, b := range res.Rebar {
@@ -154,7 +154,7 @@ func (rn *runner) cautions(res *Result, j judgeInput) []string {
 	}
 	for _, b := range res.Rebar {
 		if b.PeakC > 723 {
-			add(fmt.Sprintf("Some bars (e.g. %s, %.0f °C) exceeded 723 °C (Ac1): if they were quenched by fire-fighting water they may be brittle; take coupons (research/residual.md §2.1, Dias 1992).", b.Label, b.PeakC))
+			add(fmt.Sprintf("Some bars (e.g. %s, %.0f °C) exceeded 723 °C (Ac1): if they were quenched by fire-fighting water they may be brittle; take coupons (Dias 1992).", b.Label, b.PeakC))
 			break
 		}
 	}
@@ -208,16 +208,16 @@ func (rn *runner) methods(res *Result) []Method {
 			Source: src + "; 1-D surrogate through the face corrected by the 2-D section, golden-section search, Δχ² ≤ 1 range"})
 	}
 	cm := Method{Step: "concrete residual strength", Name: ConcreteEN1994AnnexC, Version: "EN 1994-1-2:2005 Annex C; EN 1992-1-2:2004 Table 3.1",
-		Source: "f_c,res = φ·k_c(θmax)·f_ck, φ = 0.9 above 300 °C, linear ratio 100–300 °C; peak strain ε_c1(θmax) kept (research/residual.md §1.1)"}
+		Source: "f_c,res = φ·k_c(θmax)·f_ck, φ = 0.9 above 300 °C, linear ratio 100–300 °C; peak strain ε_c1(θmax) kept (EN 1994-1-2:2005 Annex C on EN 1992-1-2:2004 Table 3.1)"}
 	if in.Options.ConcreteModel == ConcreteChang2006 {
 		cm = Method{Step: "concrete residual strength", Name: ConcreteChang2006, Version: "Chang et al., Cem. Concr. Res. 36 (2006) 1999–2005",
-			Source: "residual strength and peak-strain regressions, siliceous aggregate (research/residual.md §1.6)"}
+			Source: "residual strength and peak-strain regressions, siliceous aggregate (Chang, Chen, Sheu & Yao, Cem. Concr. Res. 36 (2006) 1999–2005)"}
 	}
 	if in.Member.Concrete.Aggregate == "lightweight" {
 		cm.Source += "; lightweight: EN 1994-1-2 Table 3.3 LC column (from memory)"
 	}
 	ms = append(ms, cm)
-	sm := Method{Step: "steel residual strength", Name: SteelResidualByClass, Version: "research/residual.md §2.2 working values",
+	sm := Method{Step: "steel residual strength", Name: SteelResidualByClass, Version: "working values from the published envelopes (TR68 2008; Neves et al. 1996; Tao, Wang & Uy 2013; Topçu & Karakurt 2008), from memory",
 		Source: "f_y,res/f_yk by class: hot-rolled 1.0 to 600 °C (0.95 at 800 °C), cold-worked 1.0 to 450 °C (0.70 at 800 °C), quenched-and-tempered 1.0 to 400 °C, prestressing 1.0 to 300 °C"}
 	if in.Options.SteelModel == SteelHotStrength {
 		sm = Method{Step: "steel residual strength", Name: SteelHotStrength, Version: "EN 1992-1-2:2004 Tables 3.2a (class N) and 3.3",
