@@ -7,6 +7,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"gonum.org/v1/plot"
 	"gonum.org/v1/plot/font"
@@ -284,14 +285,26 @@ func momentCurvaturePlot(res *assess.Result, dir string) (*plot.Plot, error) {
 	return p, nil
 }
 
+// wrapTitle breaks a plot title into lines of at most n characters at spaces
+// (a single longer word stays whole), so long fire names fit the plot width.
 func wrapTitle(s string, n int) string {
-	if len(s) <= n {
-		return s
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(s) {
+		switch {
+		case line == "":
+			line = w
+		case utf8.RuneCountInString(line)+1+utf8.RuneCountInString(w) <= n:
+			line += " " + w
+		default:
+			lines = append(lines, line)
+			line = w
+		}
 	}
-	if i := strings.LastIndex(s[:n], " "); i > 0 {
-		return s[:i] + "\n" + s[i+1:]
+	if line != "" {
+		lines = append(lines, line)
 	}
-	return s
+	return strings.Join(lines, "\n")
 }
 
 // plotSize is the size the plots are drawn at (points); the pages scale them to their column.
