@@ -20,7 +20,9 @@ func TestFlow(t *testing.T) {
 	}
 	mustOne(t, parseHTML(t, body), "no-members")
 
-	code, body, h := ts.post(t, proj+"/members", beamForm("B12"))
+	form := beamForm("B12")
+	form.Set("evidence.exposed_bars[0]", "true") // the bottom layer's bars were seen exposed on site
+	code, body, h := ts.post(t, proj+"/members", form)
 	if code != http.StatusSeeOther {
 		t.Fatalf("save member: status %d, want 303; body:\n%s", code, errorSummary(t, body))
 	}
@@ -53,9 +55,23 @@ func TestFlow(t *testing.T) {
 	if n := len(byTestID(doc, "caution")); n == 0 {
 		t.Errorf("result page shows no caution")
 	}
+	// the bar table notes the bars of layer 1 (3 bottom bars) as seen exposed on site, and only them
+	barRows := 0
+	for _, tr := range elementsByTag(mustOne(t, doc, "bars"), "tr") {
+		if strings.Contains(textOf(tr), "seen exposed on site") {
+			barRows++
+		}
+	}
+	if barRows != 3 {
+		t.Errorf("bar table marks %d bars as seen exposed on site, want the 3 bars of layer 1", barRows)
+	}
 	mustOne(t, doc, "issue")
 	_, body, _ = ts.get(t, result+"/report")
-	mustOne(t, parseHTML(t, body), "draft-notice")
+	rdoc := parseHTML(t, body)
+	mustOne(t, rdoc, "draft-notice")
+	if !strings.Contains(textOf(mustOne(t, rdoc, "bars")), "seen exposed on site") {
+		t.Errorf("the report's bar table does not note the bars seen exposed on site")
+	}
 
 	code, _, _ = ts.post(t, result+"/issue", url.Values{})
 	if code != http.StatusSeeOther {
@@ -105,7 +121,7 @@ func TestFlow(t *testing.T) {
 			t.Errorf("pdf lacks the caution %q", w)
 		}
 	}
-	for _, w := range []string{"Input SHA-256", rec.InputHash, rec.MethodVersion, "Review by the engineer of record", "Method and references"} {
+	for _, w := range []string{"seen exposed on site", "Input SHA-256", rec.InputHash, rec.MethodVersion, "Review by the engineer of record", "Method and references"} {
 		if !strings.Contains(text, w) {
 			t.Errorf("pdf lacks %q", w)
 		}

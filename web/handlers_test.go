@@ -96,20 +96,30 @@ func TestMemberValidation(t *testing.T) {
 		value   string
 		errID   string // data-testid of the message
 		mention string // the message must contain this
+		extra   url.Values
 	}{
-		{"width not a number", "member.width_mm", "abc", "err-member-width_mm", "must be a number"},
-		{"web width too small", "member.width_mm", "50", "err-member-width_mm", "100–2000"},
-		{"cover too small", "member.layers[0].cover_mm", "2", "err-member-layers-0-cover_mm", "5–200"},
-		{"too many bars", "member.layers[0].count", "60", "err-member-layers-0-count", "1–50"},
-		{"fck out of range", "member.concrete.fck_mpa", "200", "err-member-concrete-fck_mpa", "12–90"},
-		{"no label", "member.label", "", "err-member-label", "required"},
-		{"unknown curve", "fire.curve", "campfire", "err-fire-curve", "iso834"},
-		{"negative demand", "demand.sagging_knm", "-5", "err-demand-sagging_knm", "0–100000"},
+		{"width not a number", "member.width_mm", "abc", "err-member-width_mm", "must be a number", nil},
+		{"web width too small", "member.width_mm", "50", "err-member-width_mm", "100–2000", nil},
+		{"cover too small", "member.layers[0].cover_mm", "2", "err-member-layers-0-cover_mm", "5–200", nil},
+		{"too many bars", "member.layers[0].count", "60", "err-member-layers-0-count", "1–50", nil},
+		{"fck out of range", "member.concrete.fck_mpa", "200", "err-member-concrete-fck_mpa", "12–90", nil},
+		{"no label", "member.label", "", "err-member-label", "required", nil},
+		{"unknown curve", "fire.curve", "campfire", "err-fire-curve", "iso834", nil},
+		{"negative demand", "demand.sagging_knm", "-5", "err-demand-sagging_knm", "0–100000", nil},
+		// 20 mm bar: π·20²/4 = 314 mm², accepted 0.6–1.05 of it
+		{"bar area too small", "member.layers[0].area_mm2", "100", "err-member-layers-0-area_mm2", "0.6–1.05·π·dia²/4", nil},
+		{"area not a number", "member.layers[1].area_mm2", "x", "err-member-layers-1-area_mm2", "must be a number", nil},
+		// the top layer of a rectangular beam can only be exposed through the top or the sides
+		{"top bars seen exposed, top and sides not exposed", "evidence.exposed_bars[1]", "true", "err-evidence-exposed_bars-1", "member.exposed",
+			url.Values{"member.exposed": {"bottom"}}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			f := beamForm("V1")
 			f.Set(c.field, c.value)
+			for k, v := range c.extra {
+				f[k] = v
+			}
 			code, body, _ := ts.post(t, proj+"/members", f)
 			if code != http.StatusUnprocessableEntity {
 				t.Fatalf("status %d, want 422", code)

@@ -36,10 +36,19 @@ type memberForm struct {
 	FitFamily, FitO, FitB, FitGrowth       string
 	Version                                int64
 	Errors                                 map[string]string // by field name; "" = not tied to a field
+
+	// ExposedBarsListed: the stored input carried evidence.exposed_bars, so the list (one
+	// entry per layer, from Layer.Exposed) is written back even when no box is ticked.
+	ExposedBarsListed bool
 }
 
-type layerForm struct{ Face, Cover, Count, Spacing, Dia, Steel, Fyk, Prestress string }
-type barForm struct{ X, Y, Dia, Steel, Fyk, Prestress string }
+// layerForm is one reinforcement layer row; Exposed is its "bars seen exposed on site" box
+// (evidence.exposed_bars[i] of the input, kept with the row so that it moves when rows are removed).
+type layerForm struct {
+	Face, Cover, Count, Spacing, Dia, Steel, Fyk, Prestress, Area string
+	Exposed                                                       bool
+}
+type barForm struct{ X, Y, Dia, Steel, Fyk, Prestress, Area string }
 type progForm struct{ Face, Start, Rate, Max string }
 type colourForm struct{ Face, Isotherm, Depth, Sd string }
 type spallForm struct{ Face, Depth, From, To string }
@@ -86,11 +95,18 @@ func formFromInput(in assess.Input, label, location string, version int64) membe
 	if m.Concrete.MoisturePct != nil {
 		f.Moisture = fmtInput(*m.Concrete.MoisturePct)
 	}
-	for _, l := range m.Layers {
-		f.Layers = append(f.Layers, layerForm{l.Face, num(l.CoverMM), numi(l.Count), num(l.SpacingMM), num(l.DiaMM), l.Steel, num(l.FykMPa), num(l.PrestressMPa)})
+	var seen []bool
+	if in.Evidence != nil {
+		seen = in.Evidence.ExposedBars
+		f.ExposedBarsListed = len(seen) > 0
+	}
+	for i, l := range m.Layers {
+		f.Layers = append(f.Layers, layerForm{Face: l.Face, Cover: num(l.CoverMM), Count: numi(l.Count), Spacing: num(l.SpacingMM),
+			Dia: num(l.DiaMM), Steel: l.Steel, Fyk: num(l.FykMPa), Prestress: num(l.PrestressMPa), Area: num(l.AreaMM2),
+			Exposed: i < len(seen) && seen[i]})
 	}
 	for _, b := range m.Bars {
-		f.Bars = append(f.Bars, barForm{fmtInput(b.XMM), fmtInput(b.YMM), num(b.DiaMM), b.Steel, num(b.FykMPa), num(b.PrestressMPa)})
+		f.Bars = append(f.Bars, barForm{fmtInput(b.XMM), fmtInput(b.YMM), num(b.DiaMM), b.Steel, num(b.FykMPa), num(b.PrestressMPa), num(b.AreaMM2)})
 	}
 	for _, e := range m.Exposed {
 		f.Exposed[e] = true
@@ -161,8 +177,14 @@ func parseMemberForm(v url.Values) memberForm {
 			f.Exposed[e] = true
 		}
 	}
-	rows := func(prefix string, keys ...string) [][]string {
-		var out [][]string
+	f.ExposedBarsListed = g("evidence.exposed_bars") == "listed"
+	// rows returns the non-blank rows of a group with the index each had in the posted form.
+	type row struct {
+		at   int
+		vals []string
+	}
+	rows := func(prefix string, keys ...string) []row {
+		var out []row
 		for i := 0; i < maxRows; i++ {
 			vals := make([]string, len(keys))
 			blank, present := true, false
@@ -181,25 +203,28 @@ func parseMemberForm(v url.Values) memberForm {
 				continue
 			}
 			if !blank {
-				out = append(out, vals)
+				out = append(out, row{i, vals})
 			}
 		}
 		return out
 	}
-	for _, r := range rows("member.layers", "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa") {
-		f.Layers = append(f.Layers, layerForm{r[0], r[1], r[2], r[3], r[4], r[5], r[6], r[7]})
+	for _, r := range rows("member.layers", "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa", "area_mm2") {
+		v := r.vals
+		// the box is named by the engine's path for the row as posted; a ticked box alone does not keep a blank row
+		f.Layers = append(f.Layers, layerForm{Face: v[0], Cover: v[1], Count: v[2], Spacing: v[3], Dia: v[4], Steel: v[5], Fyk: v[6],
+			Prestress: v[7], Area: v[8], Exposed: g(fmt.Sprintf("evidence.exposed_bars[%d]", r.at)) == "true"})
 	}
-	for _, r := range rows("member.bars", "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa") {
-		f.Bars = append(f.Bars, barForm{r[0], r[1], r[2], r[3], r[4], r[5]})
+	for _, r := range rows("member.bars", "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa", "area_mm2") {
+		f.Bars = append(f.Bars, barForm{r.vals[0], r.vals[1], r.vals[2], r.vals[3], r.vals[4], r.vals[5], r.vals[6]})
 	}
 	for _, r := range rows("fire.spalling", "face", "start_min", "rate_mm_per_min", "max_depth_mm") {
-		f.Progressive = append(f.Progressive, progForm{r[0], r[1], r[2], r[3]})
+		f.Progressive = append(f.Progressive, progForm{r.vals[0], r.vals[1], r.vals[2], r.vals[3]})
 	}
 	for _, r := range rows("evidence.colour_depths", "face", "isotherm_c", "depth_mm", "sd_mm") {
-		f.Colour = append(f.Colour, colourForm{r[0], r[1], r[2], r[3]})
+		f.Colour = append(f.Colour, colourForm{r.vals[0], r.vals[1], r.vals[2], r.vals[3]})
 	}
 	for _, r := range rows("evidence.spalling", "face", "depth_mm", "from_mm", "to_mm") {
-		f.Spalls = append(f.Spalls, spallForm{r[0], r[1], r[2], r[3]})
+		f.Spalls = append(f.Spalls, spallForm{r.vals[0], r.vals[1], r.vals[2], r.vals[3]})
 	}
 	return f
 }
@@ -314,14 +339,14 @@ func (f memberForm) toInput() (assess.Input, *assess.InvalidError) {
 		m.Layers = append(m.Layers, assess.Layer{
 			Face: l.Face, CoverMM: fl(p+"cover_mm", l.Cover), Count: it(p+"count", l.Count),
 			SpacingMM: fl(p+"spacing_mm", l.Spacing), DiaMM: fl(p+"dia_mm", l.Dia), Steel: l.Steel,
-			FykMPa: fl(p+"fyk_mpa", l.Fyk), PrestressMPa: fl(p+"prestress_mpa", l.Prestress),
+			FykMPa: fl(p+"fyk_mpa", l.Fyk), PrestressMPa: fl(p+"prestress_mpa", l.Prestress), AreaMM2: fl(p+"area_mm2", l.Area),
 		})
 	}
 	for i, b := range f.Bars {
 		p := fmt.Sprintf("member.bars[%d].", i)
 		m.Bars = append(m.Bars, assess.Bar{
 			XMM: fl(p+"x_mm", b.X), YMM: fl(p+"y_mm", b.Y), DiaMM: fl(p+"dia_mm", b.Dia), Steel: b.Steel,
-			FykMPa: fl(p+"fyk_mpa", b.Fyk), PrestressMPa: fl(p+"prestress_mpa", b.Prestress),
+			FykMPa: fl(p+"fyk_mpa", b.Fyk), PrestressMPa: fl(p+"prestress_mpa", b.Prestress), AreaMM2: fl(p+"area_mm2", b.Area),
 		})
 	}
 	for _, face := range []string{"bottom", "left", "right", "top"} {
@@ -370,8 +395,20 @@ func (f memberForm) toInput() (assess.Input, *assess.InvalidError) {
 		}
 		in.Fire = fi
 	}
-	if len(f.Colour) > 0 || len(f.Spalls) > 0 || f.EvidenceNotes != "" {
+	ticked := false
+	for _, l := range f.Layers {
+		ticked = ticked || l.Exposed
+	}
+	if len(f.Colour) > 0 || len(f.Spalls) > 0 || f.EvidenceNotes != "" || ticked {
 		ev := &assess.Evidence{Notes: f.EvidenceNotes}
+		// evidence.exposed_bars must have one entry per layer (or be absent): it is built from the
+		// layer rows themselves, and sent when a box is ticked or the stored input listed it.
+		if ticked || f.ExposedBarsListed {
+			ev.ExposedBars = make([]bool, len(f.Layers))
+			for i, l := range f.Layers {
+				ev.ExposedBars[i] = l.Exposed
+			}
+		}
 		for i, c := range f.Colour {
 			p := fmt.Sprintf("evidence.colour_depths[%d].", i)
 			ev.ColourDepths = append(ev.ColourDepths, assess.ColourDepth{Face: c.Face,

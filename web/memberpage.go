@@ -49,6 +49,14 @@ func withUnit(v float64, unit, blank string) string {
 	return fmtInput(v) + " " + unit
 }
 
+// areaNote words a bar's given cross-section area (0 = π·d²/4, not mentioned).
+func areaNote(a float64) string {
+	if a == 0 {
+		return ""
+	}
+	return ", area " + fmtInput(a) + " mm² each"
+}
+
 // inputGroups lists the inputs as entered (not normalised), grouped as in the editor.
 func inputGroups(in assess.Input, location string) []inputGroup {
 	m := in.Member
@@ -83,11 +91,11 @@ func inputGroups(in assess.Input, location string) []inputGroup {
 			bars = fmt.Sprintf("%s mm at %s mm", fmtInput(l.DiaMM), fmtInput(l.SpacingMM))
 		}
 		geo.Rows = append(geo.Rows, inputRow{fmt.Sprintf("Layer %d", i+1),
-			fmt.Sprintf("%s, %s, cover %s mm, %s, f_yk %s MPa", l.Face, bars, fmtInput(l.CoverMM), orDefault(l.Steel, "hot-rolled"), fmtInput(l.FykMPa))})
+			fmt.Sprintf("%s, %s, cover %s mm, %s, f_yk %s MPa%s", l.Face, bars, fmtInput(l.CoverMM), orDefault(l.Steel, "hot-rolled"), fmtInput(l.FykMPa), areaNote(l.AreaMM2))})
 	}
 	for i, b := range m.Bars {
 		geo.Rows = append(geo.Rows, inputRow{fmt.Sprintf("Bar %d", i+1),
-			fmt.Sprintf("Ø%s mm at x %s, y %s mm, %s, f_yk %s MPa", fmtInput(b.DiaMM), fmtInput(b.XMM), fmtInput(b.YMM), orDefault(b.Steel, "hot-rolled"), fmtInput(b.FykMPa))})
+			fmt.Sprintf("Ø%s mm at x %s, y %s mm, %s, f_yk %s MPa%s", fmtInput(b.DiaMM), fmtInput(b.XMM), fmtInput(b.YMM), orDefault(b.Steel, "hot-rolled"), fmtInput(b.FykMPa), areaNote(b.AreaMM2))})
 	}
 	exp := strings.Join(m.Exposed, ", ")
 	if exp == "" {
@@ -141,6 +149,15 @@ func inputGroups(in assess.Input, location string) []inputGroup {
 				where = fmt.Sprintf("%s–%s mm along the face", fmtInput(sp.FromMM), fmtInput(sp.ToMM))
 			}
 			ev.Rows = append(ev.Rows, inputRow{fmt.Sprintf("Spalling %d", i+1), fmt.Sprintf("%s face, %s mm deep, %s", sp.Face, fmtInput(sp.DepthMM), where)})
+		}
+		var seen []string
+		for i, on := range e.ExposedBars {
+			if on {
+				seen = append(seen, fmt.Sprintf("layer %d", i+1))
+			}
+		}
+		if len(seen) > 0 {
+			ev.Rows = append(ev.Rows, inputRow{"Bars seen exposed on site", strings.Join(seen, ", ")})
 		}
 		if e.Notes != "" {
 			ev.Rows = append(ev.Rows, inputRow{"Notes", e.Notes})

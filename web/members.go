@@ -24,7 +24,7 @@ func editorFields(f memberForm) map[string]bool {
 		"fire.parametric.growth", "fire.points", "demand.sagging_knm", "demand.hogging_knm", "demand.axial_kn",
 		"options.cell_mm", "options.concrete_model", "options.steel_model", "options.gamma_c", "options.gamma_s",
 		"options.alpha_cc", "options.fit.family", "options.fit.opening_factor_m05", "options.fit.b_j_m2s05k",
-		"options.fit.growth"} {
+		"options.fit.growth", "evidence.exposed_bars"} {
 		k[n] = true
 	}
 	add := func(group string, n int, keys ...string) {
@@ -34,8 +34,11 @@ func editorFields(f memberForm) map[string]bool {
 			}
 		}
 	}
-	add("member.layers", len(f.Layers), "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa")
-	add("member.bars", len(f.Bars), "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa")
+	add("member.layers", len(f.Layers), "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa", "area_mm2")
+	add("member.bars", len(f.Bars), "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa", "area_mm2")
+	for i := range f.Layers {
+		k[exposedBarsName(i)] = true
+	}
 	add("evidence.colour_depths", len(f.Colour), "face", "isotherm_c", "depth_mm", "sd_mm")
 	add("evidence.spalling", len(f.Spalls), "face", "depth_mm", "from_mm", "to_mm")
 	return k
@@ -48,7 +51,11 @@ func placeProblems(f memberForm, inv *assess.InvalidError) (map[string]string, [
 	known := editorFields(f)
 	names := make([]string, 0, len(known))
 	for n := range known {
-		names = append(names, n)
+		// a whole-row problem ("member.bars[0]") goes to a required field of the row, never to
+		// the optional area that happens to sort first
+		if !strings.HasSuffix(n, ".area_mm2") {
+			names = append(names, n)
+		}
 	}
 	sort.Strings(names)
 	resolve := func(p string) string {
@@ -349,19 +356,21 @@ var fieldNames = map[string]string{
 	"options.alpha_cc": "α_cc", "options.fit.family": "Fire family fitted", "options.fit.opening_factor_m05": "Fit: opening factor",
 	"options.fit.b_j_m2s05k": "Fit: thermal absorptivity b", "options.fit.growth": "Fit: growth rate",
 	"options.concrete_model": "Residual concrete model", "options.steel_model": "Residual steel model",
+	"evidence.exposed_bars": "Bars seen exposed on site",
 }
 
 var rowGroups = []struct{ Prefix, Name string }{
 	{"member.layers[", "Layer"}, {"member.bars[", "Bar"}, {"member.exposed[", "Exposed face"},
 	{"fire.spalling[", "Progressive spalling"}, {"evidence.colour_depths[", "Colour-change depth"},
 	{"evidence.spalling[", "Spalling"}, {"fire.points[", "Fire point"},
+	{"evidence.exposed_bars[", "Bars seen exposed on site, layer"},
 }
 
 var keyNames = map[string]string{
 	"face": "face", "cover_mm": "cover", "count": "number of bars", "spacing_mm": "spacing", "dia_mm": "diameter",
 	"steel": "steel class", "fyk_mpa": "f_yk", "prestress_mpa": "prestress", "x_mm": "x", "y_mm": "y",
 	"isotherm_c": "isotherm", "depth_mm": "depth", "sd_mm": "standard deviation", "from_mm": "from", "to_mm": "to",
-	"start_min": "start", "rate_mm_per_min": "rate", "max_depth_mm": "greatest depth",
+	"start_min": "start", "rate_mm_per_min": "rate", "max_depth_mm": "greatest depth", "area_mm2": "area",
 }
 
 // fieldLabel words a JSON path for the error summary ("member.layers[0].cover_mm" → "Layer 1 cover").

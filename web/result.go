@@ -247,6 +247,9 @@ func buildResultView(p *assess.Project, m *assess.MemberRecord, a *assess.Assess
 		if b.ExposedBySpalling {
 			notes = append(notes, "exposed by spalling")
 		}
+		if b.ExposedOnSite {
+			notes = append(notes, "seen exposed on site")
+		}
 		row.Note = strings.Join(notes, ", ")
 		v.Bars = append(v.Bars, row)
 	}

@@ -118,6 +118,117 @@ func TestFormRoundTrip(t *testing.T) {
 	}
 }
 
+// TestFormExposedBarsAndArea: the per-layer "bars seen exposed on site" boxes and the bar and
+// layer areas reach evidence.exposed_bars and area_mm2 as the engine expects them (one list entry
+// per layer, in order; no list when nothing is ticked), survive removing rows and blank rows, and
+// a form built this way passes the engine's validation.
+func TestFormExposedBarsAndArea(t *testing.T) {
+	t.Parallel()
+	base := func() assess.Input {
+		return assess.Input{
+			Member: assess.Member{Kind: "beam", Label: "E1", WidthMM: 300, DepthMM: 500, LinkDiaMM: 8,
+				Concrete: assess.Concrete{FckMPa: 30, Aggregate: "siliceous"},
+				Layers: []assess.Layer{
+					{Face: "bottom", CoverMM: 30, Count: 3, DiaMM: 12.5, Steel: "prestressing", FykMPa: 1640, PrestressMPa: 900, AreaMM2: 93},
+					{Face: "top", CoverMM: 30, Count: 2, DiaMM: 12, Steel: "hot-rolled", FykMPa: 500},
+				},
+				Bars:    []assess.Bar{{XMM: 150, YMM: 250, DiaMM: 15.2, Steel: "prestressing", FykMPa: 1640, AreaMM2: 139}},
+				Exposed: []string{"bottom", "left", "right"}},
+			Fire:   &assess.Fire{Curve: "iso834", DurationMin: 60},
+			Demand: assess.Demand{SaggingKNm: 50},
+		}
+	}
+	roundTrip := func(in assess.Input) (memberForm, assess.Input) {
+		t.Helper()
+		back := parseMemberForm(formValues(formFromInput(in, in.Member.Label, "", 1)))
+		got, perr := back.toInput()
+		if perr != nil {
+			t.Fatalf("form does not parse back: %v", perr)
+		}
+		return back, got
+	}
+	cases := []struct {
+		name string
+		ev   *assess.Evidence
+	}{
+		{"no evidence", nil},
+		{"second layer seen exposed, no other evidence", &assess.Evidence{ExposedBars: []bool{false, true}}},
+		{"explicit all-false list beside spalling", &assess.Evidence{Spalling: []assess.MeasuredSpall{{Face: "bottom", DepthMM: 10}}, ExposedBars: []bool{false, false}}},
+		{"spalling, no list", &assess.Evidence{Spalling: []assess.MeasuredSpall{{Face: "bottom", DepthMM: 10}}}},
+	}
+	for _, c := range cases {
+		in := base()
+		in.Evidence = c.ev
+		_, got := roundTrip(in)
+		if diff := cmp.Diff(in, got); diff != "" {
+			t.Errorf("%s: round trip (-want +got):\n%s", c.name, diff)
+		}
+		raw, err := inputJSON(got)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if _, err := assess.DecodeBytes(raw); err != nil {
+			t.Errorf("%s: the engine rejects the form's input: %v", c.name, err)
+		}
+	}
+
+	// removing layer 1 keeps the tick with layer 2, which becomes layer 1
+	in := base()
+	in.Evidence = &assess.Evidence{ExposedBars: []bool{false, true}}
+	f := formFromInput(in, "E1", "", 1)
+	if !f.applyOp("remove-layer:0") {
+		t.Fatal("remove-layer not applied")
+	}
+	got, perr := parseMemberForm(formValues(f)).toInput()
+	if perr != nil {
+		t.Fatal(perr)
+	}
+	if got.Evidence == nil || !cmp.Equal(got.Evidence.ExposedBars, []bool{true}) {
+		t.Errorf("after removing layer 1: evidence %+v, want exposed_bars [true]", got.Evidence)
+	}
+
+	// a blank posted row is dropped: a box ticked on posted row 2 belongs to layer 2 of the input
+	v := formValues(formFromInput(base(), "E1", "", 1))
+	for k := range v {
+		if len(k) > 16 && k[:16] == "member.layers[1]" {
+			v[k[:14]+"2"+k[15:]] = v[k]
+			if k[17:] == "face" || k[17:] == "steel" {
+				continue // selects always post a value
+			}
+			v.Set(k, "")
+		}
+	}
+	v.Set("member.layers[1].face", "bottom")
+	v.Set("member.layers[1].steel", "hot-rolled")
+	v.Set("evidence.exposed_bars[2]", "true")
+	got, perr = parseMemberForm(v).toInput()
+	if perr != nil {
+		t.Fatal(perr)
+	}
+	if len(got.Member.Layers) != 2 || got.Evidence == nil || !cmp.Equal(got.Evidence.ExposedBars, []bool{false, true}) {
+		t.Errorf("blank middle row: layers %d, evidence %+v, want 2 layers and exposed_bars [false true]", len(got.Member.Layers), got.Evidence)
+	}
+	if got.Member.Layers[0].AreaMM2 != 93 || got.Member.Bars[0].AreaMM2 != 139 {
+		t.Errorf("areas = %v, %v, want 93, 139 mm² as entered", got.Member.Layers[0].AreaMM2, got.Member.Bars[0].AreaMM2)
+	}
+
+	// the engine's problems with the new fields land beside them
+	f = memberForm{Layers: make([]layerForm, 2), Bars: make([]barForm, 1)}
+	errs, _ := placeProblems(f, &assess.InvalidError{Problems: []assess.Problem{
+		{Field: "evidence.exposed_bars[1]", Message: "a"},
+		{Field: "member.layers[0].area_mm2", Message: "b"},
+		{Field: "evidence.exposed_bars", Message: "c"},
+		{Field: "member.bars[0]", Message: "d"},
+	}})
+	want := map[string]string{"evidence.exposed_bars[1]": "a", "member.layers[0].area_mm2": "b", "evidence.exposed_bars": "c", "member.bars[0].dia_mm": "d"}
+	if diff := cmp.Diff(want, errs); diff != "" {
+		t.Errorf("placed (-want +got):\n%s", diff)
+	}
+	if got := fieldLabel("evidence.exposed_bars[1]"); got != "Bars seen exposed on site, layer 2" {
+		t.Errorf("fieldLabel = %q", got)
+	}
+}
+
 // formValues renders a form model as the browser would post it (names as in editor.templ).
 func formValues(f memberForm) url.Values {
 	v := url.Values{}
@@ -136,12 +247,18 @@ func formValues(f memberForm) url.Values {
 	set("member.concrete.moisture_pct", f.Moisture)
 	set("member.concrete.conductivity", f.Conductivity)
 	for i, l := range f.Layers {
-		for k, s := range map[string]string{"face": l.Face, "cover_mm": l.Cover, "count": l.Count, "spacing_mm": l.Spacing, "dia_mm": l.Dia, "steel": l.Steel, "fyk_mpa": l.Fyk, "prestress_mpa": l.Prestress} {
+		for k, s := range map[string]string{"face": l.Face, "cover_mm": l.Cover, "count": l.Count, "spacing_mm": l.Spacing, "dia_mm": l.Dia, "steel": l.Steel, "fyk_mpa": l.Fyk, "prestress_mpa": l.Prestress, "area_mm2": l.Area} {
 			set(rowName("member.layers", i, k), s)
 		}
+		if l.Exposed { // a checkbox is posted only when ticked
+			set(exposedBarsName(i), "true")
+		}
+	}
+	if f.ExposedBarsListed {
+		set("evidence.exposed_bars", "listed")
 	}
 	for i, b := range f.Bars {
-		for k, s := range map[string]string{"x_mm": b.X, "y_mm": b.Y, "dia_mm": b.Dia, "steel": b.Steel, "fyk_mpa": b.Fyk, "prestress_mpa": b.Prestress} {
+		for k, s := range map[string]string{"x_mm": b.X, "y_mm": b.Y, "dia_mm": b.Dia, "steel": b.Steel, "fyk_mpa": b.Fyk, "prestress_mpa": b.Prestress, "area_mm2": b.Area} {
 			set(rowName("member.bars", i, k), s)
 		}
 	}
