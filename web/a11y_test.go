@@ -21,6 +21,10 @@ func TestEveryInputHasALabel(t *testing.T) {
 	f.Set("member.bars[0].y_mm", "250")
 	f.Set("member.bars[0].dia_mm", "16")
 	f.Set("member.bars[0].fyk_mpa", "500")
+	f.Set("fire.spalling[0].face", "bottom")
+	f.Set("fire.spalling[0].start_min", "10")
+	f.Set("fire.spalling[0].rate_mm_per_min", "1")
+	f.Set("fire.spalling[0].max_depth_mm", "20")
 	f.Set("op", "run")
 	code, body, h := ts.post(t, proj+"/members", f)
 	if code != http.StatusSeeOther {

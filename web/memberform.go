@@ -108,7 +108,16 @@ func formFromInput(in assess.Input, label, location string, version int64) membe
 	for _, b := range m.Bars {
 		f.Bars = append(f.Bars, barForm{fmtInput(b.XMM), fmtInput(b.YMM), num(b.DiaMM), b.Steel, num(b.FykMPa), num(b.PrestressMPa), num(b.AreaMM2)})
 	}
-	for _, e := range m.Exposed {
+	exposed := m.Exposed
+	if exposed == nil {
+		// absent: the engine's default faces, ticked so that saving keeps their meaning (an
+		// untouched box list is posted as the explicit list, and no box means no face exposed)
+		exposed = []string{"bottom", "left", "right"}
+		if m.Kind == assess.KindSlab {
+			exposed = []string{"bottom"}
+		}
+	}
+	for _, e := range exposed {
 		f.Exposed[e] = true
 	}
 	if fi := in.Fire; fi != nil {
@@ -136,6 +145,11 @@ func formFromInput(in assess.Input, label, location string, version int64) membe
 	}
 	if fo := in.Options.Fit; fo != nil {
 		f.FitFamily, f.FitO, f.FitB, f.FitGrowth = fo.Family, num(fo.OpeningFactorM05), num(fo.BJM2S05K), fo.Growth
+		if f.FitFamily == "" {
+			// a fit block without a family is the default family; the select's blank choice
+			// would drop the block altogether
+			f.FitFamily = assess.FitStandard
+		}
 	}
 	return f
 }
@@ -162,8 +176,9 @@ func parseMemberForm(v url.Values) memberForm {
 		Curve:   g("fire.curve"), Duration: g("fire.duration_min"), Cooling: g("fire.cooling_rate_c_per_min"),
 		ParamO: g("fire.parametric.opening_factor_m05"), ParamB: g("fire.parametric.b_j_m2s05k"),
 		ParamQ: g("fire.parametric.fire_load_mj_m2"), ParamGrowth: g("fire.parametric.growth"),
-		Points:        v.Get("fire.points"),
-		EvidenceNotes: g("evidence.notes"),
+		Points: v.Get("fire.points"),
+		// browsers send a textarea's line breaks as CRLF; the input keeps them as LF
+		EvidenceNotes: strings.ReplaceAll(g("evidence.notes"), "\r\n", "\n"),
 		Sagging:       g("demand.sagging_knm"), Hogging: g("demand.hogging_knm"), Axial: g("demand.axial_kn"),
 		CellMM: g("options.cell_mm"), ConcreteModel: g("options.concrete_model"), SteelModel: g("options.steel_model"),
 		GammaC: g("options.gamma_c"), GammaS: g("options.gamma_s"), AlphaCC: g("options.alpha_cc"),
@@ -399,7 +414,7 @@ func (f memberForm) toInput() (assess.Input, *assess.InvalidError) {
 	for _, l := range f.Layers {
 		ticked = ticked || l.Exposed
 	}
-	if len(f.Colour) > 0 || len(f.Spalls) > 0 || f.EvidenceNotes != "" || ticked {
+	if len(f.Colour) > 0 || len(f.Spalls) > 0 || f.EvidenceNotes != "" || ticked || (f.ExposedBarsListed && len(f.Layers) > 0) {
 		ev := &assess.Evidence{Notes: f.EvidenceNotes}
 		// evidence.exposed_bars must have one entry per layer (or be absent): it is built from the
 		// layer rows themselves, and sent when a box is ticked or the stored input listed it.
@@ -442,6 +457,17 @@ func inputJSON(in assess.Input) (json.RawMessage, error) {
 		return nil, fmt.Errorf("encode member input: %w", err)
 	}
 	return b, nil
+}
+
+// hasErrorUnder reports whether a field whose name starts with prefix has a message, so that a
+// collapsed section holding it is shown open.
+func hasErrorUnder(errs map[string]string, prefix string) bool {
+	for k, msg := range errs {
+		if msg != "" && strings.HasPrefix(k, prefix) {
+			return true
+		}
+	}
+	return false
 }
 
 // fieldID turns a JSON-path field name into an HTML id ("member.layers[0].cover_mm" →

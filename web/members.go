@@ -24,7 +24,7 @@ func editorFields(f memberForm) map[string]bool {
 		"fire.parametric.growth", "fire.points", "demand.sagging_knm", "demand.hogging_knm", "demand.axial_kn",
 		"options.cell_mm", "options.concrete_model", "options.steel_model", "options.gamma_c", "options.gamma_s",
 		"options.alpha_cc", "options.fit.family", "options.fit.opening_factor_m05", "options.fit.b_j_m2s05k",
-		"options.fit.growth", "evidence.exposed_bars"} {
+		"options.fit.growth", "evidence.exposed_bars", "fire.spalling", "evidence.notes"} {
 		k[n] = true
 	}
 	add := func(group string, n int, keys ...string) {
@@ -34,8 +34,9 @@ func editorFields(f memberForm) map[string]bool {
 			}
 		}
 	}
-	add("member.layers", len(f.Layers), "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa", "area_mm2")
-	add("member.bars", len(f.Bars), "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa", "area_mm2")
+	add("member.layers", len(f.Layers), "face", "cover_mm", "count", "spacing_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa", "area_mm2")
+	add("member.bars", len(f.Bars), "x_mm", "y_mm", "dia_mm", "steel", "fyk_mpa", "prestress_mpa", "area_mm2")
+	add("fire.spalling", len(f.Progressive), "face", "start_min", "rate_mm_per_min", "max_depth_mm")
 	for i := range f.Layers {
 		k[exposedBarsName(i)] = true
 	}
@@ -356,7 +357,8 @@ var fieldNames = map[string]string{
 	"options.alpha_cc": "α_cc", "options.fit.family": "Fire family fitted", "options.fit.opening_factor_m05": "Fit: opening factor",
 	"options.fit.b_j_m2s05k": "Fit: thermal absorptivity b", "options.fit.growth": "Fit: growth rate",
 	"options.concrete_model": "Residual concrete model", "options.steel_model": "Residual steel model",
-	"evidence.exposed_bars": "Bars seen exposed on site",
+	"evidence.exposed_bars": "Bars seen exposed on site", "fire.spalling": "Spalling during the fire",
+	"evidence.notes": "Evidence notes",
 }
 
 var rowGroups = []struct{ Prefix, Name string }{
