@@ -7,6 +7,8 @@ import (
 	"fmt"
 	"net/http"
 	"net/http/httptest"
+	"os"
+	"path/filepath"
 	"testing"
 	"time"
 
@@ -93,4 +95,58 @@ func BenchmarkEngineRun(b *testing.B) {
 			b.Fatal(err)
 		}
 	}
+}
+
+// The throughput pair below compares the service with the engine on the
+// 300 × 600 mm beam of testdata/beam-3side-iso90.json (ISO 834 90 min,
+// three sides, 5 mm cells): BenchmarkThroughputService posts assessments
+// from parallel clients through the queue (GOMAXPROCS workers) and stores
+// them; BenchmarkThroughputEngine runs the engine alone on one goroutine.
+// The target: service ops/s ≥ 0.8 × engine ops/s × cores.
+
+func BenchmarkThroughputService(b *testing.B) {
+	e := newEnv(b, withQueue(0, 256, time.Minute))
+	pid := e.createProject("bench")
+	raw, err := os.ReadFile(filepath.Join("..", "testdata", "beam-3side-iso90.json"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	m := assess.MemberRecord{ProjectID: pid, Label: "B-throughput", Kind: "beam", Input: raw}
+	if err := e.store.CreateMember(context.Background(), &m); err != nil {
+		b.Fatal(err)
+	}
+	path := memberPath(m.ID) + "/assessments"
+	b.ResetTimer()
+	b.RunParallel(func(pb *testing.PB) {
+		for pb.Next() {
+			rec := httptest.NewRecorder()
+			e.h.ServeHTTP(rec, httptest.NewRequest("POST", path, nil))
+			if rec.Code != http.StatusCreated {
+				b.Errorf("POST = %d %s", rec.Code, rec.Body.Bytes())
+				return
+			}
+		}
+	})
+	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "assessments/s")
+}
+
+func BenchmarkThroughputEngine(b *testing.B) {
+	raw, err := os.ReadFile(filepath.Join("..", "testdata", "beam-3side-iso90.json"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		in, err := assess.DecodeBytes(raw)
+		if err != nil {
+			b.Fatal(err)
+		}
+		res, err := assess.Run(context.Background(), in, nil)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := assess.MarshalJSON(res); err != nil {
+			b.Fatal(err)
+		}
+	}
+	b.ReportMetric(float64(b.N)/b.Elapsed().Seconds(), "assessments/s")
 }
