@@ -11,6 +11,8 @@ import (
 	"net/http"
 	"strconv"
 	"strings"
+	"sync"
+	"unicode/utf8"
 
 	"github.com/go-chi/chi/v5"
 
@@ -141,6 +143,88 @@ func encode(w http.ResponseWriter, r *http.Request, log *slog.Logger, status int
 		return
 	}
 	writeJSON(w, status, body)
+}
+
+// bufPool holds the byte slices that hand-written encoders (the member
+// list) append a response body to; a slice goes back once the body has been
+// written. Only the buffer is reused, never its contents.
+var bufPool = sync.Pool{New: func() any { b := make([]byte, 0, 64<<10); return &b }}
+
+// maxPooledBuf is the largest buffer put back in bufPool, so that one huge
+// answer does not pin its memory for good.
+const maxPooledBuf = 1 << 20
+
+// getBuf takes an empty buffer from bufPool; give it back with putBuf.
+func getBuf() *[]byte {
+	b := bufPool.Get().(*[]byte)
+	*b = (*b)[:0]
+	return b
+}
+
+// putBuf returns a buffer to bufPool unless it grew past maxPooledBuf.
+func putBuf(b *[]byte) {
+	if cap(*b) <= maxPooledBuf {
+		bufPool.Put(b)
+	}
+}
+
+// hexDigits are the lower-case hex digits of \u00XX escapes.
+const hexDigits = "0123456789abcdef"
+
+// appendJSONString appends s as a JSON string exactly as encoding/json
+// writes it with SetEscapeHTML(false) (see marshal): '"' and '\\' escaped
+// with a backslash; \b, \f, \n, \r and \t by name; other bytes below 0x20 as
+// \u00XX; U+2028 and U+2029 as \u2028 and \u2029; each byte of invalid
+// UTF-8 as \ufffd; everything else, including <, > and &, as is.
+// TestAppendJSONString checks it against encoding/json.
+func appendJSONString(b []byte, s string) []byte {
+	b = append(b, '"')
+	start := 0 // s[start:i] is pending, to be copied unchanged
+	for i := 0; i < len(s); {
+		c := s[i]
+		if c < utf8.RuneSelf {
+			if c >= 0x20 && c != '"' && c != '\\' {
+				i++
+				continue
+			}
+			b = append(b, s[start:i]...)
+			switch c {
+			case '"', '\\':
+				b = append(b, '\\', c)
+			case '\b':
+				b = append(b, '\\', 'b')
+			case '\f':
+				b = append(b, '\\', 'f')
+			case '\n':
+				b = append(b, '\\', 'n')
+			case '\r':
+				b = append(b, '\\', 'r')
+			case '\t':
+				b = append(b, '\\', 't')
+			default:
+				b = append(b, '\\', 'u', '0', '0', hexDigits[c>>4], hexDigits[c&0xf])
+			}
+			i++
+			start = i
+			continue
+		}
+		r, size := utf8.DecodeRuneInString(s[i:])
+		switch {
+		case r == utf8.RuneError && size == 1:
+			b = append(b, s[start:i]...)
+			b = append(b, `\ufffd`...)
+		case r == '\u2028' || r == '\u2029':
+			b = append(b, s[start:i]...)
+			b = append(b, '\\', 'u', '2', '0', '2', hexDigits[r&0xf])
+		default:
+			i += size
+			continue
+		}
+		i += size
+		start = i
+	}
+	b = append(b, s[start:]...)
+	return append(b, '"')
 }
 
 // writeJSON sends an already encoded JSON body.

@@ -4,7 +4,6 @@ import (
 	"context"
 	"errors"
 	"fmt"
-	"strings"
 	"time"
 
 	"github.com/jackc/pgx/v5"
@@ -46,17 +45,16 @@ func (db *DB) GetMember(ctx context.Context, id int64) (*assess.MemberRecord, er
 }
 
 // ListMembers implements assess.Store.
+//
+// A listing is one statement on a pooled connection, not a transaction: a
+// single SELECT sees one snapshot by itself, and BEGIN READ ONLY … ROLLBACK
+// would cost two more round trips. See listMembers for the existence check.
 func (db *DB) ListMembers(ctx context.Context, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
 	pg, err := pg.Normalize()
 	if err != nil {
 		return nil, fmt.Errorf("list members of project %d: %w", projectID, err)
 	}
-	tx, err := db.beginRead(ctx)
-	if err != nil {
-		return nil, fmt.Errorf("list members of project %d: %w", projectID, err)
-	}
-	defer tx.Rollback(ctx)
-	ms, err := listMembers(ctx, tx, projectID, pg)
+	ms, err := listMembers(ctx, db.pool, projectID, pg)
 	if err != nil {
 		return nil, fmt.Errorf("list members of project %d: %w", projectID, formatError(err))
 	}
@@ -137,9 +135,17 @@ const memberColumns = `
 		created_at,
 		updated_at`
 
-// memberListColumns is memberColumns without the input document, which a
-// listing does not return (it is most of a row's size).
-var memberListColumns = strings.Replace(memberColumns, "input,", "NULL AS input,", 1)
+// memberListColumns is the column list listMembers reads: memberColumns
+// without the input document, which a listing does not return (it is most
+// of a row's size), and without project_id, which the query fixes.
+const memberListColumns = `
+		id,
+		label,
+		location,
+		kind,
+		version,
+		created_at,
+		updated_at`
 
 func createMember(ctx context.Context, tx pgx.Tx, m *assess.MemberRecord, now time.Time) error {
 	if _, err := lockLiveProject(ctx, tx, m.ProjectID); err != nil {
@@ -195,30 +201,68 @@ func lockLiveMember(ctx context.Context, tx pgx.Tx, id int64) (*assess.MemberRec
 	return findMember(ctx, tx, id, "FOR UPDATE")
 }
 
-func listMembers(ctx context.Context, tx pgx.Tx, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
-	if _, err := findProject(ctx, tx, projectID, ""); err != nil {
-		return nil, err
-	}
-	var a args
-	where := []string{"project_id = " + a.add(projectID)}
+// querier is what listMembers needs of a pool or a transaction.
+type querier interface {
+	Query(ctx context.Context, sql string, args ...any) (pgx.Rows, error)
+	QueryRow(ctx context.Context, sql string, args ...any) pgx.Row
+}
+
+// listMembers reads one page of a project's members, scanning each row's
+// columns straight into the record (no reflection). The project's existence
+// is checked only when the page comes back empty: a non-empty page proves it
+// (members cannot outlive their project), which saves a query on every
+// listing. Outside a transaction the check runs on a later snapshot than
+// the page; the answer is still one the database gave at some instant: an
+// empty page if the project existed then, ErrNotFound if not.
+func listMembers(ctx context.Context, q querier, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
+	query, args := listMembersQuery, []any{projectID, pg.Limit, pg.Offset}
 	if pg.AfterID > 0 {
-		where = append(where, "id > "+a.add(pg.AfterID))
+		query, args = listMembersAfterQuery, []any{projectID, pg.AfterID, pg.Limit, pg.Offset}
 	}
-	rows, _ := tx.Query(ctx, `SELECT`+memberListColumns+`
-		FROM members
-		WHERE `+strings.Join(where, " AND ")+`
-		ORDER BY id
-		LIMIT `+a.add(pg.Limit)+` OFFSET `+a.add(pg.Offset), a...)
-	rs, err := pgx.CollectRows(rows, pgx.RowToStructByName[memberRow])
+	rows, err := q.Query(ctx, query, args...)
 	if err != nil {
 		return nil, err
 	}
-	ms := make([]assess.MemberRecord, len(rs))
-	for i, r := range rs {
-		ms[i] = r.member()
+	defer rows.Close()
+	ms := make([]assess.MemberRecord, 0, pg.Limit)
+	for rows.Next() {
+		m := assess.MemberRecord{ProjectID: projectID}
+		if err := rows.Scan(&m.ID, &m.Label, &m.Location, &m.Kind, &m.Version, &m.CreatedAt, &m.UpdatedAt); err != nil {
+			return nil, err
+		}
+		m.CreatedAt, m.UpdatedAt = utc(m.CreatedAt), utc(m.UpdatedAt)
+		ms = append(ms, m)
+	}
+	if err := rows.Err(); err != nil {
+		return nil, err
+	}
+	if len(ms) == 0 {
+		var exists bool
+		if err := q.QueryRow(ctx, `SELECT EXISTS (SELECT 1 FROM projects WHERE id = $1)`, projectID).Scan(&exists); err != nil {
+			return nil, err
+		}
+		if !exists {
+			return nil, fmt.Errorf("project %d: %w", projectID, assess.ErrNotFound)
+		}
 	}
 	return ms, nil
 }
+
+// The two forms of the member list query: first page (or offset) and
+// keyset page after an ID. Constant text, so pgx's statement cache prepares
+// each once per connection.
+const (
+	listMembersQuery = `SELECT` + memberListColumns + `
+		FROM members
+		WHERE project_id = $1
+		ORDER BY id
+		LIMIT $2 OFFSET $3`
+	listMembersAfterQuery = `SELECT` + memberListColumns + `
+		FROM members
+		WHERE project_id = $1 AND id > $2
+		ORDER BY id
+		LIMIT $3 OFFSET $4`
+)
 
 func updateMember(ctx context.Context, tx pgx.Tx, m *assess.MemberRecord, now time.Time) error {
 	cur, err := lockLiveMember(ctx, tx, m.ID)

@@ -1,11 +1,11 @@
 package sqlite
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
 	"errors"
 	"fmt"
-	"strings"
 
 	"residuum/assess"
 )
@@ -44,17 +44,16 @@ func (db *DB) GetMember(ctx context.Context, id int64) (*assess.MemberRecord, er
 }
 
 // ListMembers implements assess.Store.
+//
+// A listing is one prepared statement outside a transaction: in WAL mode a
+// single SELECT reads one snapshot by itself, and BEGIN … COMMIT would add
+// two statements per call. See listMembers for the existence check.
 func (db *DB) ListMembers(ctx context.Context, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
 	pg, err := pg.Normalize()
 	if err != nil {
 		return nil, fmt.Errorf("list members of project %d: %w", projectID, err)
 	}
-	tx, err := db.beginRead(ctx)
-	if err != nil {
-		return nil, fmt.Errorf("list members of project %d: %w", projectID, err)
-	}
-	defer tx.Rollback()
-	ms, err := listMembers(ctx, tx, projectID, pg)
+	ms, err := db.listMembersPage(ctx, projectID, pg)
 	if err != nil {
 		return nil, fmt.Errorf("list members of project %d: %w", projectID, formatError(err))
 	}
@@ -132,9 +131,19 @@ const memberColumns = `
 		created_at,
 		updated_at`
 
-// memberListColumns is memberColumns without the input document, which a
-// listing does not return (it is most of a row's size).
-var memberListColumns = strings.Replace(memberColumns, "input,", "NULL AS input,", 1)
+// memberListColumns is the column list listMembersPage reads: memberColumns
+// without the input document, which a listing does not return (it is most
+// of a row's size), and without project_id, which the query fixes. The
+// driver takes the connection's mutex several times for every column of
+// every row, so the list reads only what it needs, and reads both
+// timestamps as one text value, "created updated" (see splitTimes).
+const memberListColumns = `
+		id,
+		label,
+		location,
+		kind,
+		version,
+		created_at || ' ' || updated_at`
 
 func scanMember(row interface{ Scan(...any) error }) (*assess.MemberRecord, error) {
 	var (
@@ -181,34 +190,83 @@ func findLiveMember(ctx context.Context, tx *txn, id int64) (*assess.MemberRecor
 	return m, nil
 }
 
-func listMembers(ctx context.Context, tx *txn, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
-	if _, err := findProject(ctx, tx, projectID); err != nil {
-		return nil, err
-	}
-	where, args := []string{"project_id = ?"}, []any{projectID}
+// listMembersPage reads one page of a project's members. The project's
+// existence is checked only when the page comes back empty: a non-empty page
+// proves it (members cannot outlive their project), which saves a query on
+// every listing. The check reads a later snapshot than the page; the answer
+// is still one the database gave at some instant: an empty page if the
+// project existed then, ErrNotFound if not.
+func (db *DB) listMembersPage(ctx context.Context, projectID int64, pg assess.Page) ([]assess.MemberRecord, error) {
+	var (
+		rows *sql.Rows
+		err  error
+	)
 	if pg.AfterID > 0 {
-		where, args = append(where, "id > ?"), append(args, pg.AfterID)
+		rows, err = db.listMembersAfter.QueryContext(ctx, projectID, pg.AfterID, pg.Limit, pg.Offset)
+	} else {
+		rows, err = db.listMembers.QueryContext(ctx, projectID, pg.Limit, pg.Offset)
 	}
-	args = append(args, pg.Limit, pg.Offset)
-	rows, err := tx.QueryContext(ctx, `SELECT`+memberListColumns+`
-		FROM members
-		WHERE `+strings.Join(where, " AND ")+`
-		ORDER BY id
-		LIMIT ? OFFSET ?`, args...)
 	if err != nil {
 		return nil, err
 	}
 	defer rows.Close()
-	ms := []assess.MemberRecord{}
+	ms := make([]assess.MemberRecord, 0, pg.Limit)
+	// The timestamps are scanned as raw bytes, reused from row to row, and
+	// parsed by parseTime without going through strings.
+	var times sql.RawBytes
 	for rows.Next() {
-		m, err := scanMember(rows)
-		if err != nil {
+		m := assess.MemberRecord{ProjectID: projectID}
+		if err := rows.Scan(&m.ID, &m.Label, &m.Location, &m.Kind, &m.Version, &times); err != nil {
 			return nil, err
 		}
-		ms = append(ms, *m)
+		created, updated := splitTimes(times)
+		if m.CreatedAt, err = parseTime(created); err != nil {
+			return nil, err
+		}
+		if m.UpdatedAt, err = parseTime(updated); err != nil {
+			return nil, err
+		}
+		ms = append(ms, m)
 	}
-	return ms, rows.Err()
+	if err := rows.Err(); err != nil {
+		return nil, err
+	}
+	if len(ms) == 0 {
+		var exists bool
+		if err := db.db.QueryRowContext(ctx, `SELECT EXISTS (SELECT 1 FROM projects WHERE id = ?)`, projectID).Scan(&exists); err != nil {
+			return nil, err
+		}
+		if !exists {
+			return nil, fmt.Errorf("project %d: %w", projectID, assess.ErrNotFound)
+		}
+	}
+	return ms, nil
 }
+
+// splitTimes splits "created updated" as memberListColumns selects them.
+// Stored times (timeLayout) hold no space; the halves of anything else fail
+// in parseTime.
+func splitTimes(b []byte) (created, updated []byte) {
+	if i := bytes.IndexByte(b, ' '); i >= 0 {
+		return b[:i], b[i+1:]
+	}
+	return b, nil
+}
+
+// The two forms of the member list query: first page (or offset) and
+// keyset page after an ID. Prepared once by Open (DB.prepare).
+const (
+	listMembersQuery = `SELECT` + memberListColumns + `
+		FROM members
+		WHERE project_id = ?
+		ORDER BY id
+		LIMIT ? OFFSET ?`
+	listMembersAfterQuery = `SELECT` + memberListColumns + `
+		FROM members
+		WHERE project_id = ? AND id > ?
+		ORDER BY id
+		LIMIT ? OFFSET ?`
+)
 
 func updateMember(ctx context.Context, tx *txn, m *assess.MemberRecord) error {
 	cur, err := findLiveMember(ctx, tx, m.ID)

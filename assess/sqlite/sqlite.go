@@ -39,6 +39,11 @@ type DB struct {
 
 	db    *sql.DB
 	write chan struct{} // one slot: held for the life of a write transaction
+
+	// Statements of the hot read paths, prepared once: database/sql keeps
+	// one SQLite statement per connection and reuses it, instead of
+	// compiling the SQL text on every call.
+	listMembers, listMembersAfter *sql.Stmt
 }
 
 // busyTimeoutMS is how long a statement waits for another connection's or
@@ -111,7 +116,24 @@ func Open(ctx context.Context, path string) (*DB, error) {
 		sdb.Close()
 		return nil, fmt.Errorf("open sqlite %s: %w", path, err)
 	}
-	return &DB{db: sdb, write: make(chan struct{}, 1)}, nil
+	db := &DB{db: sdb, write: make(chan struct{}, 1)}
+	if err := db.prepare(ctx); err != nil {
+		sdb.Close()
+		return nil, fmt.Errorf("open sqlite %s: %w", path, err)
+	}
+	return db, nil
+}
+
+// prepare prepares the DB's statements (after migrating: they name tables).
+func (db *DB) prepare(ctx context.Context) error {
+	var err error
+	if db.listMembers, err = db.db.PrepareContext(ctx, listMembersQuery); err != nil {
+		return fmt.Errorf("prepare member list: %w", formatError(err))
+	}
+	if db.listMembersAfter, err = db.db.PrepareContext(ctx, listMembersAfterQuery); err != nil {
+		return fmt.Errorf("prepare member list: %w", formatError(err))
+	}
+	return nil
 }
 
 // Migrate applies the pending migrations to the SQLite database at path
@@ -146,9 +168,9 @@ func migrate(ctx context.Context, sdb *sql.DB) ([]string, error) {
 	return out, nil
 }
 
-// Close closes the database.
+// Close closes the prepared statements and the database.
 func (db *DB) Close() error {
-	return db.db.Close()
+	return errors.Join(db.listMembers.Close(), db.listMembersAfter.Close(), db.db.Close())
 }
 
 // Ping checks that the database file can be read.
@@ -279,6 +301,57 @@ func decodeTime(s string) (time.Time, error) {
 		return time.Time{}, fmt.Errorf("stored time %q: %w", s, err)
 	}
 	return t.UTC(), nil
+}
+
+// parseTime decodes a stored time without the general time.Parse: the
+// store always writes timeLayout (fixed width, UTC), so the digits sit at
+// known offsets. Anything else (say a row written by hand) falls back to
+// decodeTime, which reports it.
+func parseTime(b []byte) (time.Time, error) {
+	// 2006-01-02T15:04:05.000000Z
+	// 012345678901234567890123456 (byte offsets)
+	if len(b) != len(timeLayout) || b[4] != '-' || b[7] != '-' || b[10] != 'T' || b[13] != ':' ||
+		b[16] != ':' || b[19] != '.' || b[26] != 'Z' {
+		return decodeTime(string(b))
+	}
+	year, ok1 := digits(b[0:4])
+	month, ok2 := digits(b[5:7])
+	day, ok3 := digits(b[8:10])
+	hour, ok4 := digits(b[11:13])
+	minute, ok5 := digits(b[14:16])
+	sec, ok6 := digits(b[17:19])
+	usec, ok7 := digits(b[20:26])
+	if !(ok1 && ok2 && ok3 && ok4 && ok5 && ok6 && ok7) ||
+		month < 1 || month > 12 || day < 1 || day > daysIn(month, year) ||
+		hour > 23 || minute > 59 || sec > 59 {
+		return decodeTime(string(b))
+	}
+	return time.Date(year, time.Month(month), day, hour, minute, sec, usec*1000, time.UTC), nil
+}
+
+// digits decodes a run of ASCII digits; ok is false if any byte is not one.
+func digits(b []byte) (n int, ok bool) {
+	for _, c := range b {
+		if c < '0' || c > '9' {
+			return 0, false
+		}
+		n = n*10 + int(c-'0')
+	}
+	return n, true
+}
+
+// daysIn is the number of days in a month (1–12) of the Gregorian year.
+func daysIn(month, year int) int {
+	switch month {
+	case 2:
+		if year%4 == 0 && (year%100 != 0 || year%400 == 0) {
+			return 29
+		}
+		return 28
+	case 4, 6, 9, 11:
+		return 30
+	}
+	return 31
 }
 
 func decodeNullTime(s sql.NullString) (*time.Time, error) {
