@@ -2,10 +2,13 @@ package web
 
 import (
 	"net/http"
+	"net/url"
 	"strings"
 	"testing"
 
 	"golang.org/x/net/html"
+
+	"residuum/assess"
 )
 
 // TestEveryInputHasALabel walks the main pages and checks that every visible form control has
@@ -43,6 +46,20 @@ func TestEveryInputHasALabel(t *testing.T) {
 		pages[p] = body
 	}
 	pages["invalid editor"] = invalid
+	_, invalidEdit, _ := ts.post(t, proj+"/edit", url.Values{"name": {""}, "version": {"1"}})
+	pages["invalid project edit"] = invalidEdit
+	issued := storeProject(t, ts, "Issued project")
+	storeMember(t, ts, issued.ID, "B9", assess.StateIssued)
+	for _, p := range []string{proj + "/edit", proj + "/delete", member + "/delete", projectDeleteURL(issued.ID)} {
+		code, body, _ := ts.get(t, p)
+		if code != http.StatusOK {
+			t.Fatalf("GET %s = %d", p, code)
+		}
+		pages[p] = body
+	}
+	if !strings.Contains(pages[projectDeleteURL(issued.ID)], `type="checkbox"`) {
+		t.Fatal("archive confirmation page has no checkbox to check")
+	}
 	for name, body := range pages {
 		doc := parseHTML(t, body)
 		labelled := map[string]bool{}

@@ -28,6 +28,7 @@ var (
 	colSeriesB = mustHex("#b5540c") // residual (dashed line, triangle markers)
 	colSeriesC = mustHex("#1a5a8c") // third series (dotted, squares)
 	colSeriesD = mustHex("#6a3d7a") // fourth series (dash-dot, crosses)
+	colBand    = mustHex("#f1ddcf") // fitted-severity band fill behind the fire curve
 )
 
 // textPairs lists every foreground/background combination the stylesheet uses for text, with the

@@ -281,7 +281,7 @@ func reportPDF(v resultView, in assess.Input, res *assess.Result) ([]byte, error
 		mk   func() (plotT, error)
 	}
 	plots := []pp{
-		{"fire", func() (plotT, error) { return fireCurvePlot(res) }},
+		{"fire", func() (plotT, error) { return fireCurvePlot(res, inputFitOptions(in)) }},
 		{"rebar", func() (plotT, error) { return rebarPlot(res) }},
 		{"profile", func() (plotT, error) { return profilePlot(res, in.Evidence) }},
 		{"mk-sagging", func() (plotT, error) { return momentCurvaturePlot(res, "sagging") }},

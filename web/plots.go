@@ -122,8 +122,10 @@ func addRule(p *plot.Plot, name string, a, b [2]float64, c color.RGBA, dash []vg
 	return nil
 }
 
-// fireCurvePlot is the gas temperature the section was solved for.
-func fireCurvePlot(res *assess.Result) (*plot.Plot, error) {
+// fireCurvePlot is the gas temperature the section was solved for. When the fire was fitted to
+// the evidence it also shows, as a light band edged with dashed lines, the curves of the range of
+// severities consistent with the evidence (fo: the input's fit options, needed for the parametric family).
+func fireCurvePlot(res *assess.Result, fo *assess.FitOptions) (*plot.Plot, error) {
 	if len(res.FireCurve) == 0 {
 		return nil, nil
 	}
@@ -135,6 +137,15 @@ func fireCurvePlot(res *assess.Result) (*plot.Plot, error) {
 		}
 	}
 	p := newPlot(wrapTitle(title, 60), "time (min)", "gas temperature (°C)")
+	band, err := fittedFireBand(res, fo)
+	if err != nil {
+		return nil, err
+	}
+	if band != nil {
+		if err := addBand(p, fireBandLabel, band); err != nil {
+			return nil, err
+		}
+	}
 	if err := addSeries(p, 0, "gas", res.FireCurve); err != nil {
 		return nil, err
 	}
@@ -151,6 +162,46 @@ func fireCurvePlot(res *assess.Result) (*plot.Plot, error) {
 	p.Y.Min = 0
 	p.Legend.Left = false
 	return p, nil
+}
+
+// addBand fills the region between two curves sampled at the same times with a light tint and
+// edges it with thin dashed lines, so it reads as a band in colour and in greyscale.
+func addBand(p *plot.Plot, name string, b *fireBand) error {
+	n := len(b.Low)
+	if n < 2 || len(b.High) != n {
+		return fmt.Errorf("band %q: need two curves of the same length ≥ 2, have %d and %d", name, n, len(b.High))
+	}
+	upper := make(plotter.XYs, n)
+	lower := make(plotter.XYs, n)
+	for i := range n {
+		lo, hi := b.Low[i][1], b.High[i][1]
+		upper[i] = plotter.XY{X: b.Low[i][0], Y: math.Max(lo, hi)}
+		lower[i] = plotter.XY{X: b.Low[i][0], Y: math.Min(lo, hi)}
+	}
+	ring := make(plotter.XYs, 0, 2*n)
+	ring = append(ring, upper...)
+	for i := n - 1; i >= 0; i-- {
+		ring = append(ring, lower[i])
+	}
+	poly, err := plotter.NewPolygon(ring)
+	if err != nil {
+		return fmt.Errorf("band %q: %w", name, err)
+	}
+	poly.Color = colBand
+	poly.LineStyle.Width = 0
+	dash := []vg.Length{vg.Points(3), vg.Points(2)}
+	edges := make([]*plotter.Line, 0, 2)
+	for _, xy := range []plotter.XYs{upper, lower} {
+		l, err := plotter.NewLine(xy)
+		if err != nil {
+			return fmt.Errorf("band %q edge: %w", name, err)
+		}
+		l.Color, l.Width, l.Dashes = colMuted, vg.Points(0.9), dash
+		edges = append(edges, l)
+	}
+	p.Add(poly, edges[0], edges[1])
+	p.Legend.Add(name, poly, edges[0])
+	return nil
 }
 
 // rebarPlot is the temperature history at the bar centres: one line per distinct history (bars of

@@ -275,7 +275,7 @@ func buildResultView(p *assess.Project, m *assess.MemberRecord, a *assess.Assess
 		{"Mean residual strength ratio", fmtNum(c.MeanResidualRatio, 2) + " (area-weighted f_c,res / f_ck, removed concrete = 0)"},
 	}
 	if withPlots {
-		figs, err := resultFigures(res, in.Evidence)
+		figs, err := resultFigures(res, in.Evidence, inputFitOptions(in))
 		if err != nil {
 			return v, err
 		}
@@ -301,7 +301,7 @@ func scenarioText(s string) string {
 }
 
 // resultFigures draws every plot of a result as inline SVG.
-func resultFigures(res *assess.Result, ev *assess.Evidence) ([]figure, error) {
+func resultFigures(res *assess.Result, ev *assess.Evidence, fo *assess.FitOptions) ([]figure, error) {
 	var out []figure
 	add := func(id, caption string, mk func() (string, error)) error {
 		svg, err := mk()
@@ -326,8 +326,8 @@ func resultFigures(res *assess.Result, ev *assess.Evidence) ([]figure, error) {
 		id, caption string
 		mk          func() (string, error)
 	}{
-		{"plot-fire", "Gas temperature the section was solved for (heating and cooling).",
-			gp("plot-fire", "fire curve", func() (plotT, error) { return fireCurvePlot(res) })},
+		{"plot-fire", fireCaption(res),
+			gp("plot-fire", "fire curve", func() (plotT, error) { return fireCurvePlot(res, fo) })},
 		{"plot-heatmap", "Peak temperature reached in each part of the section, with the 300, 500 and 600 °C isotherms; white circles are the bars; blank cells were lost to spalling.",
 			func() (string, error) { return heatMapSVG(res), nil }},
 		{"plot-rebar", "Temperature at the bar centres: inner bars peak after the fire has died down.",

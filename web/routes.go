@@ -21,6 +21,10 @@ func (s *server) routes() http.Handler {
 	r.Get("/projects", s.handleProjects())
 	r.Post("/projects", s.handleProjectCreate())
 	r.Get("/projects/{pid}", s.handleProject())
+	r.Get("/projects/{pid}/edit", s.handleProjectEdit())
+	r.Post("/projects/{pid}/edit", s.handleProjectUpdate())
+	r.Get("/projects/{pid}/delete", s.handleProjectDeleteConfirm())
+	r.Post("/projects/{pid}/delete", s.handleProjectDelete())
 
 	r.Get("/projects/{pid}/members/new", s.handleMemberNew())
 	r.Post("/projects/{pid}/members", s.handleMemberCreate())
@@ -29,6 +33,8 @@ func (s *server) routes() http.Handler {
 	r.Get("/projects/{pid}/members/{mid}/edit", s.handleMemberEdit())
 	r.Post("/projects/{pid}/members/{mid}", s.handleMemberUpdate())
 	r.Post("/projects/{pid}/members/{mid}/run", s.handleRun())
+	r.Get("/projects/{pid}/members/{mid}/delete", s.handleMemberDeleteConfirm())
+	r.Post("/projects/{pid}/members/{mid}/delete", s.handleMemberDelete())
 
 	r.Get("/jobs/{jid}", s.handleJob())
 	r.Get("/jobs/{jid}/status", s.handleJobStatus())
