@@ -28,9 +28,24 @@ type family struct {
 	make        func(v float64) (thermal.Exposure, error)
 }
 
-func (rn *runner) family(fo *FitOptions) family {
+func (rn *runner) family(fo *FitOptions) family { return fitFamily(fo) }
+
+// FitExposure returns the fire of the fit family that fo selects at severity
+// v: for the standard family (fo nil or Family "standard") ISO 834 heated for
+// v minutes, then cooled at the EN 1991-1-2 Annex A rate; for the parametric
+// family the EN 1991-1-2 Annex A fire with fo's opening factor, b and growth
+// rate (default "medium", as Normalize applies) and a fire-load density of v
+// MJ/m². The fit and the pages that draw its range use this one mapping.
+func FitExposure(fo *FitOptions, v float64) (thermal.Exposure, error) {
+	return fitFamily(fo).make(v)
+}
+
+func fitFamily(fo *FitOptions) family {
 	if fo != nil && fo.Family == FitParametric {
 		o, b, gr := fo.OpeningFactorM05, fo.BJM2S05K, fo.Growth
+		if gr == "" {
+			gr = "medium"
+		}
 		return family{name: FitParametric, param: "fire_load_mj_m2", lo: 50, hi: 1000, make: func(q float64) (thermal.Exposure, error) {
 			return thermal.NewParametric(thermal.ParametricInput{OpeningFactor: o, B: b, FireLoad: q, Growth: thermal.Growth(gr)})
 		}}

@@ -23,10 +23,8 @@ type fireBand struct {
 const maxBandSamples = 2000
 
 // fittedFireBand builds the bounding curves of a fitted fire from the fit's
-// family and range, with the same constructors the assessment uses for the
-// family (ISO 834 for t minutes then the EN 1991-1-2 Annex A cooling rate;
-// or the Annex A parametric fire for the fire load, with the opening factor,
-// b and growth rate of fo). It returns nil, nil when the fire was not fitted
+// family and range with assess.FitExposure, the mapping the fit itself uses
+// (fo supplies the parametric family's opening factor, b and growth rate). It returns nil, nil when the fire was not fitted
 // or the range has no width.
 func fittedFireBand(res *assess.Result, fo *assess.FitOptions) (*fireBand, error) {
 	if res == nil || res.Fire == nil || res.Fire.Source != "fitted" || res.Fit == nil || len(res.FireCurve) < 2 {
@@ -36,24 +34,16 @@ func fittedFireBand(res *assess.Result, fo *assess.FitOptions) (*fireBand, error
 	if !(lo > 0) || !(hi > lo) || math.IsInf(hi, 0) {
 		return nil, nil
 	}
-	var mk func(v float64) (thermal.Exposure, error)
 	switch res.Fit.Family {
 	case assess.FitStandard:
-		mk = func(t float64) (thermal.Exposure, error) { return thermal.NewCooled(thermal.ISO834(), t, 0) }
 	case assess.FitParametric:
 		if fo == nil {
 			return nil, fmt.Errorf("fire band: parametric fit without options.fit in the input")
 		}
-		growth := fo.Growth
-		if growth == "" {
-			growth = "medium"
-		}
-		mk = func(q float64) (thermal.Exposure, error) {
-			return thermal.NewParametric(thermal.ParametricInput{OpeningFactor: fo.OpeningFactorM05, B: fo.BJM2S05K, FireLoad: q, Growth: thermal.Growth(growth)})
-		}
 	default:
 		return nil, fmt.Errorf("fire band: unknown fit family %q (want %q or %q)", res.Fit.Family, assess.FitStandard, assess.FitParametric)
 	}
+	mk := func(v float64) (thermal.Exposure, error) { return assess.FitExposure(fo, v) }
 	eLo, err := mk(lo)
 	if err != nil {
 		return nil, fmt.Errorf("fire band: low end %s: %w", fmtSig(lo), err)
